@@ -1,0 +1,164 @@
+//! The `stratamap` command line: the same core as the page, natively (SPEC 4).
+//! Exit codes: 0 success, 1 invalid input (message on stderr), 2 usage error.
+
+#[cfg(target_arch = "wasm32")]
+fn main() {}
+
+#[cfg(not(target_arch = "wasm32"))]
+fn main() -> std::process::ExitCode {
+    cli::main()
+}
+
+#[cfg(not(target_arch = "wasm32"))]
+mod cli {
+    use clap::{Parser, Subcommand};
+    use std::io::Write;
+    use std::path::PathBuf;
+    use std::process::ExitCode;
+    use stratamap::dataset::{load_path, Dataset};
+    use stratamap::engine::Engine;
+    use stratamap::scenario::Scenario;
+
+    /// What-if turnout maps: apply a scenario to a dataset's districts.
+    #[derive(Parser)]
+    #[command(name = "stratamap", version, about)]
+    struct Cli {
+        #[command(subcommand)]
+        command: Command,
+    }
+
+    #[derive(Subcommand)]
+    enum Command {
+        /// Validate a dataset and print a summary of it.
+        Check {
+            /// The manifest's path, or a folder holding dataset.json.
+            dataset: PathBuf,
+        },
+        /// Print one CSV row per district for a scenario.
+        Tally {
+            dataset: PathBuf,
+            /// A scenario string, e.g. "turnout=all:2&margin=young:-3".
+            #[arg(long, default_value = "")]
+            scenario: String,
+        },
+        /// Write the map of a scenario as a standalone SVG.
+        Render {
+            dataset: PathBuf,
+            #[arg(long, default_value = "")]
+            scenario: String,
+            /// Output file (default: standard output).
+            #[arg(short = 'o', long = "output")]
+            output: Option<PathBuf>,
+        },
+    }
+
+    fn load(path: &std::path::Path) -> Result<Dataset, String> {
+        load_path(path).map_err(|e| format!("{} is not a valid dataset:\n{e}", path.display()))
+    }
+
+    fn engine(path: &std::path::Path, query: &str) -> Result<Engine, String> {
+        let ds = load(path)?;
+        let q = query.trim_start_matches('?');
+        let scenario = Scenario::parse_strict(q, &ds).map_err(|msgs| {
+            let lines: Vec<String> = msgs.iter().map(|m| format!("  {m}")).collect();
+            format!("the scenario is refused:\n{}", lines.join("\n"))
+        })?;
+        if scenario.data.is_some() {
+            return Err("the scenario is refused:\n  data: names a dataset for the page; give DATASET on the command line instead".into());
+        }
+        let mut e = Engine::new(ds);
+        e.set_scenario(q);
+        Ok(e)
+    }
+
+    fn check(path: &std::path::Path) -> Result<String, String> {
+        let ds = load(path)?;
+        let mut out = String::new();
+        let parties: Vec<String> = ds
+            .parties
+            .iter()
+            .map(|p| format!("{} ({})", p.name, p.id))
+            .collect();
+        out += &format!("{} — valid\n", ds.title);
+        out += &format!("source: {}\n", ds.source);
+        out += &format!("parties: {}\n", parties.join(", "));
+        out += &format!(
+            "axis: {} vs {}\n",
+            ds.parties[ds.axis[0]].id, ds.parties[ds.axis[1]].id
+        );
+        out += &format!("groups: {}\n", ds.group_count());
+        let regions: std::collections::BTreeSet<&str> = ds
+            .districts
+            .iter()
+            .filter_map(|d| d.region.as_deref())
+            .collect();
+        out += &format!(
+            "districts: {} in {} regions, {} seats, majority {}\n",
+            ds.district_count(),
+            regions.len(),
+            ds.total_seats(),
+            ds.majority
+        );
+        let eligible: f64 = ds.cells.eligible.iter().sum();
+        out += &format!("eligible: {eligible}\n");
+        match &ds.poll {
+            Some(p) => {
+                let n: f64 = p.sample_size.iter().sum();
+                out += &format!("poll: {n} respondents in {} groups\n", p.sample_size.len());
+            }
+            None => out += "poll: none\n",
+        }
+        out += &format!("presets: {}\n", ds.presets.len());
+        Ok(out)
+    }
+
+    pub fn main() -> ExitCode {
+        let cli = match Cli::try_parse() {
+            Ok(c) => c,
+            Err(e) => {
+                let _ = e.print();
+                return if e.use_stderr() {
+                    ExitCode::from(2)
+                } else {
+                    ExitCode::SUCCESS
+                };
+            }
+        };
+        let result = match cli.command {
+            Command::Check { dataset } => check(&dataset),
+            Command::Tally { dataset, scenario } => {
+                engine(&dataset, &scenario).map(|e| e.tally_csv())
+            }
+            Command::Render {
+                dataset,
+                scenario,
+                output,
+            } => engine(&dataset, &scenario).and_then(|e| {
+                let svg = e.render_svg();
+                match output {
+                    Some(p) => std::fs::write(&p, svg)
+                        .map(|_| String::new())
+                        .map_err(|err| format!("cannot write {}: {err}", p.display())),
+                    None => Ok(svg),
+                }
+            }),
+        };
+        match result {
+            Ok(text) => {
+                let mut out = std::io::stdout().lock();
+                if out
+                    .write_all(text.as_bytes())
+                    .and_then(|_| out.flush())
+                    .is_err()
+                {
+                    return ExitCode::from(1);
+                }
+                ExitCode::SUCCESS
+            }
+            Err(msg) => {
+                eprintln!("stratamap: {msg}");
+                ExitCode::from(1)
+            }
+        }
+    }
+}

@@ -1,0 +1,444 @@
+//! The deterministic tally (SPEC 2.1–2.2): scenario shifts applied to every
+//! (district, group) cell, then votes, winners, margins, seats and group weights.
+//!
+//! [`tally_into`] reuses a [`Tally`]'s buffers so that repeated recomputes (slider moves,
+//! curves, simulation runs) allocate nothing.
+//!
+//! ```
+//! use stratamap::{scenario::Scenario, tally::{tally, Shifts}};
+//! let ds = stratamap::testdata::two_groups_no_poll();
+//! let s = Scenario::parse("margin=all:10", &ds).scenario;
+//! let t = tally(&ds, &Shifts::from_scenario(&ds, &s));
+//! assert_eq!(t.seats, vec![3, 1, 0]);
+//! assert_eq!(t.majority_party, Some(0));
+//! ```
+
+use crate::dataset::Dataset;
+use crate::scenario::Scenario;
+
+/// Effective shifts per group, in points, after `all` and (when starting from the poll)
+/// the poll's swing are added.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Shifts {
+    pub turnout: Vec<f64>,
+    pub margin: Vec<f64>,
+}
+
+impl Shifts {
+    /// No shift at all: the baseline.
+    pub fn zero(ds: &Dataset) -> Shifts {
+        Shifts {
+            turnout: vec![0.0; ds.group_count()],
+            margin: vec![0.0; ds.group_count()],
+        }
+    }
+
+    /// The shifts a scenario asks for (SPEC 2.1).
+    pub fn from_scenario(ds: &Dataset, s: &Scenario) -> Shifts {
+        let swing = if s.from_poll(ds) {
+            poll_swing(ds)
+        } else {
+            None
+        };
+        let g_count = ds.group_count();
+        Shifts {
+            turnout: (0..g_count).map(|g| s.turnout_shift(g)).collect(),
+            margin: (0..g_count)
+                .map(|g| s.margin_shift(g) + swing.as_ref().map_or(0.0, |w| w[g]))
+                .collect(),
+        }
+    }
+}
+
+/// The poll's swing per group in points toward A: the poll's A−B margin minus the
+/// baseline's nationwide A−B margin of that group (weighted by N·τ over districts).
+pub fn poll_swing(ds: &Dataset) -> Option<Vec<f64>> {
+    let poll = ds.poll.as_ref()?;
+    let (k_count, g_count) = (ds.party_count(), ds.group_count());
+    let [a, b] = ds.axis;
+    let mut out = Vec::with_capacity(g_count);
+    for g in 0..g_count {
+        let (mut w, mut m) = (0.0, 0.0);
+        for d in 0..ds.district_count() {
+            let c = d * g_count + g;
+            let v = ds.cells.eligible[c] * ds.cells.turnout[c];
+            let s = &ds.cells.shares[c * k_count..(c + 1) * k_count];
+            w += v;
+            m += v * (s[a] - s[b]);
+        }
+        let base = if w > 0.0 { m / w } else { 0.0 };
+        let p = &poll.shares[g * k_count..(g + 1) * k_count];
+        out.push(((p[a] - p[b]) - base) * 100.0);
+    }
+    Some(out)
+}
+
+/// New turnout rate of a cell and whether the clamp to [0, 1] bit.
+#[inline]
+pub fn shifted_turnout(tau: f64, shift_points: f64) -> (f64, bool) {
+    let t = tau + shift_points / 100.0;
+    if t < 0.0 {
+        (0.0, true)
+    } else if t > 1.0 {
+        (1.0, true)
+    } else {
+        (t, false)
+    }
+}
+
+/// Share moved from B to A in a cell for a margin shift (negative: from A to B), limited
+/// to what is there, and whether the limit bit.
+#[inline]
+pub fn transfer(pa: f64, pb: f64, shift_points: f64) -> (f64, bool) {
+    let x = shift_points / 200.0;
+    if x > pb {
+        (pb, true)
+    } else if -x > pa {
+        (-pa, true)
+    } else {
+        (x, false)
+    }
+}
+
+/// One cell under a scenario: turnout and shares after the shifts.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Cell {
+    pub eligible: f64,
+    pub turnout: f64,
+    pub shares: Vec<f64>,
+}
+
+/// The cell (district `d`, group `g`) after `shifts` (and an extra margin shift for the district).
+pub fn cell(ds: &Dataset, shifts: &Shifts, d: usize, g: usize, extra_margin: f64) -> Cell {
+    let (k_count, g_count) = (ds.party_count(), ds.group_count());
+    let c = d * g_count + g;
+    let [a, b] = ds.axis;
+    let mut shares = ds.cells.shares[c * k_count..(c + 1) * k_count].to_vec();
+    let (t, _) = shifted_turnout(ds.cells.turnout[c], shifts.turnout[g]);
+    let (x, _) = transfer(shares[a], shares[b], shifts.margin[g] + extra_margin);
+    shares[a] += x;
+    shares[b] -= x;
+    Cell {
+        eligible: ds.cells.eligible[c],
+        turnout: t,
+        shares,
+    }
+}
+
+/// What a tally finds. Per-district arrays are in GeoJSON order; `votes` is `d * parties + k`.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct Tally {
+    pub votes: Vec<f64>,
+    /// T_d, votes cast.
+    pub cast: Vec<f64>,
+    /// Σ_g N_gd.
+    pub eligible: Vec<f64>,
+    /// Winning party, `None` for a tie (or no votes).
+    pub winner: Vec<Option<usize>>,
+    /// Second party (`None` when there is only one with votes… never for ≥ 2 parties).
+    pub runner_up: Vec<Option<usize>>,
+    /// (first − second) / T_d × 100.
+    pub margin: Vec<f64>,
+    pub seats: Vec<u64>,
+    pub tied_seats: u64,
+    pub majority_party: Option<usize>,
+    /// Σ_d V_dk.
+    pub national_votes: Vec<f64>,
+    /// Σ_d N_gd τ'_gd per group.
+    pub group_cast: Vec<f64>,
+    /// Σ_d N_gd τ'_gd (π'_A − π'_B) per group.
+    pub group_ab: Vec<f64>,
+    /// Cells (with eligible > 0) where the turnout clamp bit.
+    pub turnout_clamped: u32,
+    /// Cells (with eligible > 0) where the margin limit bit.
+    pub margin_limited: u32,
+}
+
+impl Tally {
+    /// Votes of district `d`.
+    pub fn district_votes(&self, d: usize) -> &[f64] {
+        let k = self.national_votes.len();
+        &self.votes[d * k..(d + 1) * k]
+    }
+
+    /// Total votes cast nationwide.
+    pub fn total_cast(&self) -> f64 {
+        self.cast.iter().sum()
+    }
+
+    /// Nationwide share of each party, in [0, 1].
+    pub fn shares(&self) -> Vec<f64> {
+        let t = self.total_cast();
+        self.national_votes
+            .iter()
+            .map(|v| if t > 0.0 { v / t } else { 0.0 })
+            .collect()
+    }
+
+    /// Group weights w_g (share of the voters, by turnout), in [0, 1].
+    pub fn group_weights(&self) -> Vec<f64> {
+        let t: f64 = self.group_cast.iter().sum();
+        self.group_cast
+            .iter()
+            .map(|v| if t > 0.0 { v / t } else { 0.0 })
+            .collect()
+    }
+
+    /// Each group's nationwide A−B margin in points.
+    pub fn group_margins(&self) -> Vec<f64> {
+        self.group_cast
+            .iter()
+            .zip(&self.group_ab)
+            .map(|(w, m)| if *w > 0.0 { m / w * 100.0 } else { 0.0 })
+            .collect()
+    }
+
+    /// Turnout of district `d` in percent of its eligible people.
+    pub fn turnout_percent(&self, d: usize) -> f64 {
+        if self.eligible[d] > 0.0 {
+            self.cast[d] / self.eligible[d] * 100.0
+        } else {
+            0.0
+        }
+    }
+}
+
+/// Tally a scenario.
+pub fn tally(ds: &Dataset, shifts: &Shifts) -> Tally {
+    let mut t = Tally::default();
+    tally_into(ds, shifts, 0.0, None, &mut t);
+    t
+}
+
+/// Tally into `out`, reusing its buffers. `uniform` is an extra margin shift (points toward
+/// A) for every group and district; `per_district`, when given, one more per district.
+pub fn tally_into(
+    ds: &Dataset,
+    shifts: &Shifts,
+    uniform: f64,
+    per_district: Option<&[f64]>,
+    out: &mut Tally,
+) {
+    let (k_count, g_count, d_count) = (ds.party_count(), ds.group_count(), ds.district_count());
+    let [a, b] = ds.axis;
+    reset(&mut out.votes, d_count * k_count);
+    reset(&mut out.cast, d_count);
+    reset(&mut out.eligible, d_count);
+    reset(&mut out.margin, d_count);
+    reset(&mut out.national_votes, k_count);
+    reset(&mut out.group_cast, g_count);
+    reset(&mut out.group_ab, g_count);
+    out.winner.clear();
+    out.winner.resize(d_count, None);
+    out.runner_up.clear();
+    out.runner_up.resize(d_count, None);
+    out.seats.clear();
+    out.seats.resize(k_count, 0);
+    out.tied_seats = 0;
+    out.turnout_clamped = 0;
+    out.margin_limited = 0;
+
+    let cells = &ds.cells;
+    for d in 0..d_count {
+        let extra = uniform + per_district.map_or(0.0, |p| p.get(d).copied().unwrap_or(0.0));
+        let votes = &mut out.votes[d * k_count..(d + 1) * k_count];
+        let mut eligible = 0.0;
+        let rows = cells.eligible[d * g_count..(d + 1) * g_count]
+            .iter()
+            .zip(&cells.turnout[d * g_count..(d + 1) * g_count])
+            .zip(
+                cells.shares[d * g_count * k_count..(d + 1) * g_count * k_count]
+                    .chunks_exact(k_count),
+            )
+            .zip(shifts.turnout.iter().zip(&shifts.margin))
+            .zip(out.group_cast.iter_mut().zip(out.group_ab.iter_mut()));
+        for ((((&n, &tau), s), (&dt, &dm)), (gc, gab)) in rows {
+            if n <= 0.0 {
+                continue;
+            }
+            eligible += n;
+            let (t, clamped) = shifted_turnout(tau, dt);
+            let (x, limited) = transfer(s[a], s[b], dm + extra);
+            out.turnout_clamped += u32::from(clamped);
+            out.margin_limited += u32::from(limited);
+            let w = n * t;
+            for (v, p) in votes.iter_mut().zip(s) {
+                *v += w * p;
+            }
+            votes[a] += w * x;
+            votes[b] -= w * x;
+            *gc += w;
+            *gab += w * (s[a] - s[b] + 2.0 * x);
+        }
+        // Rounding can leave -1e-13 where B gave everything away.
+        votes[b] = votes[b].max(0.0);
+        let cast: f64 = votes.iter().sum();
+        out.cast[d] = cast;
+        out.eligible[d] = eligible;
+        let (first, second) = top_two(votes);
+        for (nv, v) in out.national_votes.iter_mut().zip(votes.iter()) {
+            *nv += v;
+        }
+        let (Some(f), Some(s)) = (first, second) else {
+            continue;
+        };
+        let lead = votes[f] - votes[s];
+        out.runner_up[d] = Some(s);
+        out.margin[d] = if cast > 0.0 { lead * 100.0 / cast } else { 0.0 };
+        let seats = u64::from(ds.districts[d].seats);
+        if cast > 0.0 && lead > 1e-9 * cast {
+            out.winner[d] = Some(f);
+            out.seats[f] += seats;
+        } else {
+            out.tied_seats += seats;
+        }
+    }
+    out.majority_party = out.seats.iter().position(|&s| s >= u64::from(ds.majority));
+}
+
+fn reset(v: &mut Vec<f64>, n: usize) {
+    v.clear();
+    v.resize(n, 0.0);
+}
+
+/// Indices of the largest and second largest values (first index wins exact ties).
+pub(crate) fn top_two(v: &[f64]) -> (Option<usize>, Option<usize>) {
+    let (mut first, mut second): (Option<usize>, Option<usize>) = (None, None);
+    for (k, &x) in v.iter().enumerate() {
+        match first {
+            None => first = Some(k),
+            Some(f) if x > v[f] => {
+                second = first;
+                first = Some(k);
+            }
+            _ => match second {
+                None => second = Some(k),
+                Some(s) if x > v[s] => second = Some(k),
+                _ => {}
+            },
+        }
+    }
+    (first, second)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::scenario::Scenario;
+    use crate::testdata::{two_groups, two_groups_no_poll};
+
+    fn close(a: f64, b: f64) {
+        assert!((a - b).abs() < 1e-9, "{a} != {b}");
+    }
+
+    fn run(q: &str) -> Tally {
+        let ds = two_groups_no_poll();
+        let s = Scenario::parse_strict(q, &ds).unwrap();
+        tally(&ds, &Shifts::from_scenario(&ds, &s))
+    }
+
+    /// Baseline, worked by hand (N·τ·π per cell):
+    /// x: young 1000·0.5 = 500 voters → a 300, b 150, c 50; old 1000·0.8 = 800 → a 240, b 480, c 80.
+    ///    a 540, b 630, c 130, cast 1300: b wins by 90/1300 = 6.923… points.
+    /// y: young 2000·0.4 = 800 → a 400, b 320, c 80; old 500·0.9 = 450 → a 180, b 225, c 45.
+    ///    a 580, b 545, c 125, cast 1250: a wins by 35/1250 = 2.8 points (2 seats).
+    /// z: young 100·0.95 = 95 → a 1.9, b 90.25, c 2.85 (no old row: 0 eligible).
+    ///    b wins by (90.25 − 2.85)/95 = 92 points over c.
+    /// Seats a 2, b 2 of 4; majority 3: nobody.
+    #[test]
+    fn baseline_by_hand() {
+        let t = run("");
+        for (got, want) in t
+            .votes
+            .iter()
+            .zip([540.0, 630.0, 130.0, 580.0, 545.0, 125.0, 1.9, 90.25, 2.85])
+        {
+            close(*got, want);
+        }
+        assert_eq!(t.cast, vec![1300.0, 1250.0, 95.0]);
+        assert_eq!(t.winner, vec![Some(1), Some(0), Some(1)]);
+        // In z Cedar (2.85) is second to Birch, ahead of Alder (1.9).
+        assert_eq!(t.runner_up, vec![Some(0), Some(1), Some(2)]);
+        close(t.margin[0], 90.0 / 1300.0 * 100.0);
+        close(t.margin[1], 2.8);
+        close(t.margin[2], 92.0);
+        assert_eq!(t.seats, vec![2, 2, 0]);
+        assert_eq!(t.majority_party, None);
+        close(t.turnout_percent(0), 65.0);
+        close(t.turnout_percent(2), 95.0);
+        // Group weights: young 500+800+95 = 1395, old 800+450 = 1250, of 2645.
+        let w = t.group_weights();
+        close(w[0], 1395.0 / 2645.0);
+        close(t.shares()[0], 1121.9 / 2645.0);
+        assert_eq!((t.turnout_clamped, t.margin_limited), (0, 0));
+    }
+
+    /// margin=young:10 moves 0.05 of share from b to a in every young cell:
+    /// x young: a 0.65, b 0.25 → a 325 + 240 = 565, b 125 + 480 = 605: b by 40/1300.
+    /// y young: a 0.55, b 0.35 → a 440 + 180 = 620, b 280 + 225 = 505: a by 115/1250.
+    #[test]
+    fn margin_shift_by_hand() {
+        let t = run("margin=young:10");
+        close(t.votes[0], 565.0);
+        close(t.votes[1], 605.0);
+        close(t.margin[0], 40.0 / 1300.0 * 100.0);
+        close(t.margin[1], 115.0 / 1250.0 * 100.0);
+        // The cell margin moved by exactly 10 points: young A−B nationwide was
+        // (150 + 80 − 88.35)/1395, now (200 + 160 − 78.85)/1395.
+        let m = t.group_margins();
+        close(m[0], (200.0 + 160.0 - 78.85) / 1395.0 * 100.0);
+    }
+
+    /// margin=old:-100 wants 0.5 of share from a to b in old cells; x old has only 0.3 of a,
+    /// y old 0.4: both limited (z has no old voters, so it does not count): 2 cells.
+    /// turnout=all:15: y old 0.9 + 0.15 and z young 0.95 + 0.15 clamp to 1: 2 cells.
+    #[test]
+    fn clamp_and_limit_counts() {
+        let t = run("margin=old:-100&turnout=all:15");
+        assert_eq!(t.margin_limited, 2);
+        assert_eq!(t.turnout_clamped, 2);
+        // x: young 650 voters a 390 b 195 c 65; old 950 voters a 0 b 855 c 95.
+        close(t.votes[0], 390.0);
+        close(t.votes[1], 1050.0);
+        close(
+            t.turnout_percent(1),
+            (2000.0 * 0.55 + 500.0) / 2500.0 * 100.0,
+        );
+    }
+
+    #[test]
+    fn a_tie_gives_seats_to_nobody() {
+        // x: margin shift so that a and b are level: 90 votes behind; young cells there have 500
+        // voters, old 800. Shift all by m: a gains 1300·m/200 and b loses as much: 90 = 13·m → m = 90/13.
+        let ds = two_groups_no_poll();
+        let mut s = Scenario::default_for(&ds);
+        s.margin_all = 90.0 / 13.0;
+        let t = tally(&ds, &Shifts::from_scenario(&ds, &s));
+        assert_eq!(t.winner[0], None);
+        assert_eq!(t.tied_seats, 1);
+        assert!(t.margin[0] < 1e-9);
+    }
+
+    /// The poll's swing of the young: poll A−B 0.55 − 0.35 = 20 points; baseline young A−B
+    /// weighted by N·τ: (500·0.3 + 800·0.1 + 95·(−0.93)) / 1395 = 141.65/1395.
+    #[test]
+    fn poll_swing_by_hand() {
+        let ds = two_groups();
+        let w = poll_swing(&ds).unwrap();
+        close(w[0], 20.0 - 141.65 / 1395.0 * 100.0);
+        // Old: poll −20; baseline (800·(−0.3) + 450·(−0.1)) / 1250 = −285/1250.
+        close(w[1], -20.0 + 285.0 / 1250.0 * 100.0);
+        let s = Scenario::default_for(&ds);
+        let sh = Shifts::from_scenario(&ds, &s);
+        close(sh.margin[0], w[0]);
+        let base = Scenario::parse_strict("start=baseline&margin=young:1", &ds).unwrap();
+        assert_eq!(Shifts::from_scenario(&ds, &base).margin, vec![1.0, 0.0]);
+    }
+
+    #[test]
+    fn top_two_picks_first_on_ties() {
+        assert_eq!(top_two(&[1.0, 3.0, 3.0]), (Some(1), Some(2)));
+        assert_eq!(top_two(&[5.0, 1.0, 2.0]), (Some(0), Some(2)));
+        assert_eq!(top_two(&[0.0, 0.0]), (Some(0), Some(1)));
+    }
+}

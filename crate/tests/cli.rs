@@ -1,0 +1,172 @@
+//! The command line on good and broken datasets and scenarios (SPEC 4).
+
+use std::path::{Path, PathBuf};
+use std::process::{Command, Output};
+use stratamap::testdata;
+
+fn dir(name: &str) -> PathBuf {
+    let d = std::env::temp_dir().join(format!("stratamap-cli-{}-{name}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&d);
+    std::fs::create_dir_all(&d).unwrap();
+    d
+}
+
+/// Write the tiny dataset, with `edit` applied to (file name, text).
+fn write_dataset(name: &str, edit: impl Fn(&str, String) -> String) -> PathBuf {
+    let d = dir(name);
+    for (f, text) in [
+        ("dataset.json", testdata::MANIFEST),
+        ("districts.geojson", testdata::DISTRICTS),
+        ("electorate.csv", testdata::ELECTORATE),
+        ("poll.csv", testdata::POLL),
+    ] {
+        std::fs::write(d.join(f), edit(f, text.to_string())).unwrap();
+    }
+    d
+}
+
+fn run(args: &[&str]) -> Output {
+    Command::new(env!("CARGO_BIN_EXE_stratamap"))
+        .args(args)
+        .output()
+        .unwrap()
+}
+
+fn s(p: &Path) -> &str {
+    p.to_str().unwrap()
+}
+
+fn stderr(o: &Output) -> String {
+    String::from_utf8_lossy(&o.stderr).into_owned()
+}
+
+#[test]
+fn check_prints_a_summary() {
+    let d = write_dataset("ok", |_, t| t);
+    let o = run(&["check", s(&d)]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let out = String::from_utf8(o.stdout).unwrap();
+    assert!(out.contains("Tiny test land — valid"));
+    assert!(out.contains("districts: 3 in 2 regions, 4 seats, majority 3"));
+    assert!(out.contains("poll: 1000 respondents in 2 groups"));
+    // The manifest's own path works too.
+    let o = run(&["check", s(&d.join("dataset.json"))]);
+    assert_eq!(o.status.code(), Some(0));
+}
+
+#[test]
+fn tally_prints_the_hand_worked_rows() {
+    let d = write_dataset("tally", |_, t| t);
+    let o = run(&[
+        "tally",
+        s(&d),
+        "--scenario",
+        "start=baseline&margin=young:10",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let out = String::from_utf8(o.stdout).unwrap();
+    let lines: Vec<&str> = out.lines().collect();
+    assert_eq!(
+        lines[0],
+        "district,name,seats,winner,margin,turnout,votes_a,votes_b,votes_c"
+    );
+    // x: a 565, b 605 (worked in tally.rs): b by 40/1300 points.
+    let x: Vec<&str> = lines[1].split(',').collect();
+    assert_eq!(&x[..4], &["x", "Xe", "1", "b"]);
+    assert!((x[4].parse::<f64>().unwrap() - 4000.0 / 1300.0).abs() < 1e-12);
+    assert_eq!(x[6].parse::<f64>().unwrap(), 565.0);
+    // The "+" of a sign may arrive as a space, and "?" may lead.
+    let o2 = run(&[
+        "tally",
+        s(&d),
+        "--scenario",
+        "?start=baseline&margin=young:+10",
+    ]);
+    assert_eq!(o2.stdout, out.as_bytes());
+}
+
+#[test]
+fn render_writes_an_svg_with_caution_and_source() {
+    let d = write_dataset("render", |_, t| t);
+    let f = d.join("map.svg");
+    let o = run(&["render", s(&d), "--scenario", "margin=all:1", "-o", s(&f)]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let svg = std::fs::read_to_string(&f).unwrap();
+    assert!(svg.starts_with("<svg"));
+    assert!(svg.contains("A scenario, not a forecast"));
+    assert!(svg.contains("Hand-made test data"));
+    assert!(svg.contains("margin=all:1"));
+}
+
+#[test]
+fn broken_files_name_file_row_and_field() {
+    let cases: [(&str, &str, &str, &str); 4] = [
+        (
+            "electorate.csv",
+            "x,old,1000,0.8,",
+            "x,old,1000,1.8,",
+            "electorate.csv row 3, field turnout",
+        ),
+        (
+            "poll.csv",
+            "old,600",
+            "old,6x0",
+            "poll.csv row 3, field sample_size",
+        ),
+        (
+            "districts.geojson",
+            "\"seats\": 2",
+            "\"seats\": -2",
+            "districts.geojson feature 1, field seats",
+        ),
+        (
+            "dataset.json",
+            "#7a4d8c",
+            "purple",
+            "dataset.json, field parties[2].color",
+        ),
+    ];
+    for (i, (file, from, to, want)) in cases.iter().enumerate() {
+        let d = write_dataset(&format!("broken{i}"), |f, t| {
+            if f == *file {
+                t.replacen(from, to, 1)
+            } else {
+                t
+            }
+        });
+        for args in [vec!["check", s(&d)], vec!["tally", s(&d)]] {
+            let o = run(&args);
+            assert_eq!(o.status.code(), Some(1), "{file}");
+            assert!(stderr(&o).contains(want), "{file}: {}", stderr(&o));
+        }
+    }
+    let o = run(&["check", "/nonexistent/stratamap"]);
+    assert_eq!(o.status.code(), Some(1));
+    assert!(stderr(&o).contains("dataset.json: cannot read"));
+}
+
+#[test]
+fn bad_scenarios_are_refused_naming_the_key() {
+    let d = write_dataset("scen", |_, t| t);
+    for (q, want) in [
+        ("turnout=young:101", "turnout:"),
+        ("margin=ghosts:2", "unknown group \"ghosts\""),
+        ("seed=1.5", "seed:"),
+        ("runs=1e3", "runs:"),
+        ("colour=teal", "colour: unknown key"),
+        ("data=other.json", "data:"),
+    ] {
+        let o = run(&["tally", s(&d), "--scenario", q]);
+        assert_eq!(o.status.code(), Some(1), "{q}");
+        assert!(stderr(&o).contains(want), "{q}: {}", stderr(&o));
+        assert!(o.stdout.is_empty());
+    }
+}
+
+#[test]
+fn usage_errors_exit_2() {
+    assert_eq!(run(&[]).status.code(), Some(2));
+    assert_eq!(run(&["tally"]).status.code(), Some(2));
+    assert_eq!(run(&["frobnicate", "x"]).status.code(), Some(2));
+    assert_eq!(run(&["--help"]).status.code(), Some(0));
+}
