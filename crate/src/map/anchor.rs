@@ -1,12 +1,14 @@
 //! Label anchors: a point inside a district, where a label or marker goes.
 
-use geo::{Area, Coord, InteriorPoint, MultiPolygon, Polygon};
+use geo::{Area, BoundingRect, Coord, MultiPolygon, Polygon};
 
-/// A point guaranteed to lie in the geometry (geo's [`InteriorPoint`]: the
-/// midpoint of the longest stretch of a horizontal line through the middle of
-/// the shape that falls inside it), unlike the centroid, which can fall outside
-/// a concave shape. For a multipolygon it is taken in its largest part by area.
-/// `None` for an empty geometry.
+/// A point inside the geometry: the midpoint of the longest stretch inside the
+/// shape (even–odd rule, holes excluded) of a few horizontal scanlines across it,
+/// unlike the centroid, which can fall outside a concave shape. For a multipolygon
+/// it is taken in its largest part by area. `None` for an empty geometry.
+///
+/// A scanline is used rather than a topological predicate so that no input, not
+/// even a self-intersecting ring from an analyst's file, can make it fail.
 ///
 /// ```
 /// use geo::{polygon, Contains, Point};
@@ -28,7 +30,53 @@ impl LabelAnchor for Polygon<f64> {
         if self.exterior().0.is_empty() {
             return None;
         }
-        self.interior_point().map(|p| p.0)
+        let rect = self.bounding_rect()?;
+        let (y0, h) = (rect.min().y, rect.height());
+        if !(y0.is_finite() && h.is_finite()) {
+            return None;
+        }
+        // Scanlines through the middle first, then further out; a tiny offset keeps
+        // them off vertices that sit on round numbers.
+        let mut best: Option<(f64, Coord<f64>)> = None;
+        let mut xs: Vec<f64> = Vec::new();
+        for f in [0.5, 0.375, 0.625, 0.25, 0.75, 0.125, 0.875] {
+            let y = y0 + h * (f + 1.234_567e-7);
+            xs.clear();
+            for ring in std::iter::once(self.exterior()).chain(self.interiors()) {
+                for l in ring.lines() {
+                    let (p, q) = (l.start, l.end);
+                    if (p.y > y) != (q.y > y) {
+                        let x = p.x + (y - p.y) * (q.x - p.x) / (q.y - p.y);
+                        if x.is_finite() {
+                            xs.push(x);
+                        }
+                    }
+                }
+            }
+            xs.sort_by(f64::total_cmp);
+            for pair in xs.chunks_exact(2) {
+                let width = pair[1] - pair[0];
+                if best.is_none_or(|(w, _)| width > w) {
+                    best = Some((
+                        width,
+                        Coord {
+                            x: 0.5 * (pair[0] + pair[1]),
+                            y,
+                        },
+                    ));
+                }
+            }
+        }
+        match best {
+            Some((_, c)) => Some(c),
+            // Degenerate (zero height): any point of the outline.
+            None => self
+                .exterior()
+                .0
+                .first()
+                .copied()
+                .filter(|c| c.x.is_finite() && c.y.is_finite()),
+        }
     }
 }
 
