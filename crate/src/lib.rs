@@ -15,6 +15,7 @@ pub mod moe;
 pub mod plane;
 pub mod scenario;
 pub mod shading;
+pub mod simulate;
 pub mod tally;
 pub mod tipping;
 

@@ -41,6 +41,12 @@ mod cli {
             #[arg(long, default_value = "")]
             scenario: String,
         },
+        /// Run the Monte Carlo simulation of a scenario; JSON to standard output.
+        Simulate {
+            dataset: PathBuf,
+            #[arg(long, default_value = "")]
+            scenario: String,
+        },
         /// Write the map of a scenario as a standalone SVG.
         Render {
             dataset: PathBuf,
@@ -112,6 +118,65 @@ mod cli {
         Ok(out)
     }
 
+    /// Runs when the scenario does not say.
+    const DEFAULT_RUNS: u32 = 2000;
+
+    fn simulate(e: &Engine) -> Result<String, String> {
+        let ds = e.dataset();
+        let s = e.scenario();
+        let runs = s.runs.unwrap_or(DEFAULT_RUNS);
+        if runs == 0 {
+            return Err("runs=0 asks for no simulation; give runs from 1 to 100000".into());
+        }
+        let sim = stratamap::simulate::simulate(ds, s, runs);
+        let parties: Vec<serde_json::Value> = ds
+            .parties
+            .iter()
+            .zip(&sim.parties)
+            .map(|(p, r)| {
+                serde_json::json!({
+                    "id": p.id,
+                    "majority_probability": r.majority_probability,
+                    "seats": {"mean": r.seats.mean, "p05": r.seats.p05, "p50": r.seats.p50, "p95": r.seats.p95,
+                              "histogram": r.seats.histogram},
+                    "share": {"p05": r.share_p05, "p50": r.share_p50, "p95": r.share_p95},
+                })
+            })
+            .collect();
+        let districts: Vec<serde_json::Value> = ds
+            .districts
+            .iter()
+            .zip(&sim.districts)
+            .map(|(d, r)| {
+                let win: serde_json::Map<String, serde_json::Value> = ds
+                    .parties
+                    .iter()
+                    .zip(&r.win_probability)
+                    .map(|(p, w)| (p.id.clone(), serde_json::json!(w)))
+                    .collect();
+                serde_json::json!({
+                    "id": d.id,
+                    "win_probability": win,
+                    "tie_probability": r.tie_probability,
+                    "tipping_point_probability": r.tipping_point_probability,
+                })
+            })
+            .collect();
+        let out = serde_json::json!({
+            "runs": sim.runs,
+            "seed": sim.seed,
+            "scenario": e.scenario_query(),
+            "no_majority_probability": sim.no_majority_probability,
+            "parties": parties,
+            "districts": districts,
+            "source": ds.source,
+            "caution": stratamap::CAUTION,
+        });
+        serde_json::to_string_pretty(&out)
+            .map(|t| t + "\n")
+            .map_err(|err| format!("cannot write JSON: {err}"))
+    }
+
     pub fn main() -> ExitCode {
         let cli = match Cli::try_parse() {
             Ok(c) => c,
@@ -128,6 +193,9 @@ mod cli {
             Command::Check { dataset } => check(&dataset),
             Command::Tally { dataset, scenario } => {
                 engine(&dataset, &scenario).map(|e| e.tally_csv())
+            }
+            Command::Simulate { dataset, scenario } => {
+                engine(&dataset, &scenario).and_then(|e| simulate(&e))
             }
             Command::Render {
                 dataset,

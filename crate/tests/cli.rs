@@ -170,3 +170,25 @@ fn usage_errors_exit_2() {
     assert_eq!(run(&["frobnicate", "x"]).status.code(), Some(2));
     assert_eq!(run(&["--help"]).status.code(), Some(0));
 }
+
+#[test]
+fn simulate_prints_json_reproducibly() {
+    let d = write_dataset("sim", |_, t| t);
+    let q = "runs=300&seed=5&district_sd=2";
+    let a = run(&["simulate", s(&d), "--scenario", q]);
+    assert_eq!(a.status.code(), Some(0), "{}", stderr(&a));
+    let b = run(&["simulate", s(&d), "--scenario", q]);
+    assert_eq!(a.stdout, b.stdout);
+    let v: serde_json::Value = serde_json::from_slice(&a.stdout).unwrap();
+    assert_eq!(v["runs"], 300);
+    assert_eq!(v["seed"], 5);
+    assert_eq!(v["parties"][0]["id"], "a");
+    let p: f64 = ["a", "b", "c"]
+        .iter()
+        .map(|k| v["districts"][2]["win_probability"][k].as_f64().unwrap())
+        .sum();
+    assert!((p + v["districts"][2]["tie_probability"].as_f64().unwrap() - 1.0).abs() < 1e-12);
+    assert!(v["caution"].as_str().unwrap().contains("not a forecast"));
+    let o = run(&["simulate", s(&d), "--scenario", "runs=0"]);
+    assert_eq!(o.status.code(), Some(1));
+}
