@@ -112,10 +112,10 @@ pub fn simulate(ds: &Dataset, s: &Scenario, runs: u32) -> Simulation {
     for _ in 0..runs {
         let b = normal(&mut rng) * s.margin_sd;
         let c = normal(&mut rng);
-        for g in 0..g_count {
+        for (g, &se_g) in se.iter().enumerate() {
             let z = normal(&mut rng);
-            let e = if se[g] > 0.0 {
-                normal(&mut rng) * se[g]
+            let e = if se_g > 0.0 {
+                normal(&mut rng) * se_g
             } else {
                 0.0
             };
