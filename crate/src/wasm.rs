@@ -16,9 +16,25 @@ fn group(index: i32) -> Option<usize> {
     usize::try_from(index).ok()
 }
 
+thread_local! {
+    static LAST_PANIC: std::cell::RefCell<Option<String>> = const { std::cell::RefCell::new(None) };
+}
+
+/// Installs a panic hook that logs to the console and keeps the message, so the page
+/// can show it (a panic would be a bug: user input is meant never to cause one).
 #[wasm_bindgen(start)]
 pub fn start() {
-    console_error_panic_hook::set_once();
+    std::panic::set_hook(Box::new(|info| {
+        LAST_PANIC.with(|p| *p.borrow_mut() = Some(info.to_string()));
+        console_error_panic_hook::hook(info);
+    }));
+}
+
+/// The message of the last panic, if the engine ever panicked (it is then unusable:
+/// the page should say so and offer a reload).
+#[wasm_bindgen(js_name = lastPanic)]
+pub fn last_panic() -> Option<String> {
+    LAST_PANIC.with(|p| p.borrow().clone())
 }
 
 /// The files a manifest names: `{districts, electorate, poll}`.
