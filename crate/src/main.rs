@@ -118,6 +118,26 @@ mod cli {
         Ok(out)
     }
 
+    /// The caution, the source line and where clamps bit, on standard error (the CSV on
+    /// standard output keeps exactly its columns for scripts).
+    fn notes(e: &Engine) {
+        let t = e.tally();
+        eprintln!("stratamap: {}", stratamap::CAUTION);
+        eprintln!("stratamap: source: {}", e.dataset().source);
+        if t.turnout_clamped > 0 {
+            eprintln!(
+                "stratamap: the turnout clamp to [0, 1] bit in {} cells",
+                t.turnout_clamped
+            );
+        }
+        if t.margin_limited > 0 {
+            eprintln!(
+                "stratamap: the margin shift was limited to the share there in {} cells",
+                t.margin_limited
+            );
+        }
+    }
+
     /// Runs when the scenario does not say.
     const DEFAULT_RUNS: u32 = 2000;
 
@@ -191,9 +211,10 @@ mod cli {
         };
         let result = match cli.command {
             Command::Check { dataset } => check(&dataset),
-            Command::Tally { dataset, scenario } => {
-                engine(&dataset, &scenario).map(|e| e.tally_csv())
-            }
+            Command::Tally { dataset, scenario } => engine(&dataset, &scenario).map(|e| {
+                notes(&e);
+                e.tally_csv()
+            }),
             Command::Simulate { dataset, scenario } => {
                 engine(&dataset, &scenario).and_then(|e| simulate(&e))
             }
