@@ -83,6 +83,24 @@ fn tally_prints_the_hand_worked_rows() {
         "?start=baseline&margin=young:+10",
     ]);
     assert_eq!(o2.stdout, out.as_bytes());
+    // The caution, source and clamp counts go to standard error (2 cells each, as
+    // worked in tally.rs).
+    let o3 = run(&[
+        "tally",
+        s(&d),
+        "--scenario",
+        "start=baseline&margin=old:-100&turnout=all:15",
+    ]);
+    let err = stderr(&o3);
+    assert!(err.contains("not a forecast") && err.contains("source: Hand-made test data"));
+    assert!(
+        err.contains("turnout clamp to [0, 1] bit in 2 cells"),
+        "{err}"
+    );
+    assert!(
+        err.contains("limited to the share there in 2 cells"),
+        "{err}"
+    );
 }
 
 #[test]
