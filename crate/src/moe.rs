@@ -11,7 +11,7 @@
 //! ```
 
 use crate::dataset::Dataset;
-use crate::tally::{cell, Shifts, Tally};
+use crate::tally::{shifted_turnout, transfer, Shifts, Tally};
 
 /// The 97.5th percentile of the standard normal distribution, for 95% intervals.
 pub const Z95: f64 = 1.959_963_984_540_054;
@@ -134,16 +134,32 @@ pub fn district_moe(ds: &Dataset, shifts: &Shifts, t: &Tally, d: usize) -> Optio
     if cast <= 0.0 {
         return None;
     }
+    let (k_count, g_count) = (ds.party_count(), ds.group_count());
+    let [a, b] = ds.axis;
     let mut var = 0.0;
-    for g in 0..ds.group_count() {
-        let c = cell(ds, shifts, d, g, 0.0);
-        let w = c.eligible * c.turnout / cast;
-        if w == 0.0 {
+    for g in 0..g_count {
+        let c = d * g_count + g;
+        let n = ds.cells.eligible[c];
+        if n <= 0.0 {
             continue;
         }
+        // The cell's shares after the shifts, as `tally::cell` gives them, for j and k only.
+        let s = &ds.cells.shares[c * k_count..(c + 1) * k_count];
+        let (turnout, _) = shifted_turnout(ds.cells.turnout[c], shifts.turnout[g]);
+        let (x, _) = transfer(s[a], s[b], shifts.margin[g]);
+        let share = |p: usize| {
+            s[p] + if p == a {
+                x
+            } else if p == b {
+                -x
+            } else {
+                0.0
+            }
+        };
+        let w = n * turnout / cast;
         let se = margin_se(
-            c.shares[j],
-            c.shares[k],
+            share(j),
+            share(k),
             poll.sample_size[g],
             poll.design_effect[g],
         );

@@ -243,7 +243,8 @@ pub fn svg(layout: &MapLayout, opts: &SvgOptions) -> String {
         return Document::new()
             .set("viewBox", format!("0 0 {} {}", num(width), num(map_height)))
             .set("class", "sm-map")
-            .set("role", "img")
+            // The inline map holds focusable districts: a group, not a single image.
+            .set("role", "group")
             .set("aria-label", aria)
             .add(defs)
             .add(districts(layout, opts))
@@ -436,7 +437,7 @@ mod tests {
         );
         assert!(out.starts_with("<svg "));
         assert!(out.contains(r#"xmlns="http://www.w3.org/2000/svg""#));
-        assert!(out.contains(r#"class="sm-map""#) && out.contains(r#"role="img""#));
+        assert!(out.contains(r#"class="sm-map""#) && out.contains(r#"role="group""#));
         assert!(out.contains(&format!(r#"viewBox="0 0 600 {}""#, num(map.height))));
         assert!(
             !out.contains("width=\"600\""),
