@@ -4,7 +4,7 @@
 // Panels are separate modules with the same small interface (setDataset, then render/
 // refresh), so later panels (simulation, opening your own files, an embed mode that hides
 // the controls) slot in here without touching the others.
-import init from './pkg/stratamap.js';
+import init, { lastPanic } from './pkg/stratamap.js';
 import { byId, debounce, el, replaceChildren, fmt1 } from './dom.js';
 import { DEFAULT_DATA, splitSearch, allowedOrigins, writeAddress, buildSearch } from './link.js';
 import { fetchDataset, engineFromTexts } from './loader.js';
@@ -54,7 +54,10 @@ const settle = debounce(() => {
 
 function reportBug(e) {
   console.error(e);
-  showMessages('bug', 'error', 'Something went wrong while updating the page.', [String(e.message ?? e)]);
+  const panic = lastPanic();
+  const lines = [String(e.message ?? e)];
+  if (panic) lines.push(`The engine stopped: ${panic}. Reload the page to start again.`);
+  showMessages('bug', 'error', 'Something went wrong while updating the page.', lines);
 }
 
 /**
@@ -99,26 +102,14 @@ function update() {
   settle();
 }
 
-/** Back to the defaults (start from the poll when there is one, every slider at 0). */
-function resetScenario(engine, info) {
-  engine.setScenario('');
-  engine.setStart(info.has_poll);
-  engine.setTurnout(-1, 0);
-  engine.setMargin(-1, 0);
-  info.groups.forEach((_, j) => {
-    engine.setTurnout(j, 0);
-    engine.setMargin(j, 0);
-  });
-}
-
 /**
  * Reset, then apply a scenario string (from the link, a preset, or '' for reset).
  * Problems are shown in the message area, naming where the string came from.
  */
 function applyScenario(query, origin) {
-  const { engine, info } = state;
-  resetScenario(engine, info);
-  const problems = query ? engine.setScenario(query) : [];
+  const { engine } = state;
+  // The string replaces the whole scenario: '' is the reset (poll start, sliders at 0).
+  const problems = engine.setScenario(query);
   if (problems.length) {
     showMessages(
       'scenario',
