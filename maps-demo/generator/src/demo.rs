@@ -487,7 +487,7 @@ pub fn build(seed: u64) -> Result<Demo, String> {
     for step in -400..=400 {
         let lean = f64::from(step) * 0.002;
         dataset.rows = rows_with_lean(&latent, lean);
-        let tally = dataset.tally(&no_shift);
+        let tally = dataset.tally(&no_shift)?;
         let miss = tally.leader_seats().abs_diff(majority - 1);
         let close = tally.close_districts(3.0);
         let better = match best {

@@ -105,10 +105,10 @@ fn run(cli: &Cli) -> Result<(), String> {
                 area, geo::Area::unsigned_area(&demo.coastline), demo.split_cells, demo.lean
             );
             let none = vec![0.0; ds.groups.len()];
-            println!("{}", ds.describe("baseline", &ds.tally(&none)));
+            println!("{}", ds.describe("baseline", &ds.tally(&none)?));
             println!(
                 "{}",
-                ds.describe("from the poll", &ds.tally(&ds.poll_swing()))
+                ds.describe("from the poll", &ds.tally(&ds.poll_swing()?)?)
             );
             let respondents: u32 = ds.poll.iter().map(|p| p.sample_size).sum();
             println!("poll: {respondents} respondents");

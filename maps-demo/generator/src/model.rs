@@ -1,6 +1,5 @@
-//! The dataset as the generator holds it, the files it writes (SPEC 1) and a small
-//! tally (SPEC 2.1 margin shift with its limit, SPEC 2.2 winner and seats) used to tune
-//! the demo and to print a summary.
+//! The dataset as the generator holds it and the files it writes (SPEC 1); its figures
+//! (used to tune the demo and to print a summary) come from stratamap's own tally.
 
 use std::fmt::Write as _;
 use std::fs;
@@ -329,93 +328,47 @@ impl Dataset {
         Ok(())
     }
 
-    /// Baseline A−B margin of each group nationwide (points), weighted by N·τ (SPEC 2.1).
-    pub fn baseline_group_margins(&self) -> Vec<f64> {
-        let [a, b] = self.axis;
-        let mut num = vec![0.0; self.groups.len()];
-        let mut den = vec![0.0; self.groups.len()];
-        for r in &self.rows {
-            let w = r.eligible as f64 * f64::from(r.turnout) / f64::from(SHARE_UNITS);
-            num[r.group] +=
-                w * (f64::from(r.shares[a]) - f64::from(r.shares[b])) / f64::from(SHARE_UNITS);
-            den[r.group] += w;
-        }
-        num.iter()
-            .zip(&den)
-            .map(|(n, d)| if *d > 0.0 { n / d * 100.0 } else { 0.0 })
-            .collect()
+    /// The dataset as stratamap's core reads it: the files written to text and loaded
+    /// back, so the generator's figures come from the same tally as the page's.
+    pub fn core(&self) -> Result<stratamap::dataset::Dataset, String> {
+        let files = self.files()?;
+        let text = |name: &str| {
+            files
+                .iter()
+                .find(|(f, _)| *f == name)
+                .map(|(_, t)| t.as_str())
+        };
+        stratamap::dataset::Dataset::from_sources(&stratamap::dataset::Sources {
+            manifest: text(MANIFEST_FILE).unwrap_or(""),
+            districts: text(DISTRICTS_FILE).unwrap_or(""),
+            electorate: text(ELECTORATE_FILE).unwrap_or(""),
+            poll: text(POLL_FILE),
+        })
+        .map_err(|e| format!("the generated dataset is not valid:\n{e}"))
     }
 
     /// Margin shift per group (points toward A) when a scenario starts from the poll:
-    /// poll A−B margin minus baseline nationwide A−B margin (SPEC 2.1).
-    pub fn poll_swing(&self) -> Vec<f64> {
-        let [a, b] = self.axis;
-        let baseline = self.baseline_group_margins();
-        let mut swing = vec![0.0; self.groups.len()];
-        for p in &self.poll {
-            let poll_margin =
-                (f64::from(p.shares[a]) - f64::from(p.shares[b])) / f64::from(POLL_UNITS) * 100.0;
-            swing[p.group] = poll_margin - baseline[p.group];
-        }
-        swing
+    /// the core's poll swing (SPEC 2.1). Empty when there is no poll.
+    pub fn poll_swing(&self) -> Result<Vec<f64>, String> {
+        Ok(stratamap::tally::poll_swing(&self.core()?).unwrap_or_default())
     }
 
-    /// Tally with a margin shift per group in points toward A (SPEC 2.1 limit, SPEC 2.2 rules).
-    pub fn tally(&self, margin_shift: &[f64]) -> Tally {
-        let [a, b] = self.axis;
-        let np = self.parties.len();
-        let mut votes = vec![vec![0.0f64; np]; self.districts.len()];
-        for r in &self.rows {
-            let cast = r.eligible as f64 * f64::from(r.turnout) / f64::from(SHARE_UNITS);
-            let mut pi: Vec<f64> = r
-                .shares
-                .iter()
-                .map(|&s| f64::from(s) / f64::from(SHARE_UNITS))
-                .collect();
-            let mut x = margin_shift.get(r.group).copied().unwrap_or(0.0) / 200.0;
-            if x > 0.0 {
-                x = x.min(pi[b]);
-            } else {
-                x = x.max(-pi[a]);
-            }
-            pi[a] += x;
-            pi[b] -= x;
-            for (k, share) in pi.iter().enumerate() {
-                votes[r.district][k] += cast * share;
-            }
-        }
-        let mut seats = vec![0u32; np];
-        let mut winners = Vec::with_capacity(self.districts.len());
-        let mut margins = Vec::with_capacity(self.districts.len());
-        for (d, v) in votes.iter().enumerate() {
-            let total: f64 = v.iter().sum();
-            let mut order: Vec<usize> = (0..np).collect();
-            order.sort_by(|&i, &j| v[j].total_cmp(&v[i]).then(i.cmp(&j)));
-            let (first, second) = (v[order[0]], v[order[1]]);
-            let margin = if total > 0.0 {
-                (first - second) / total * 100.0
-            } else {
-                0.0
-            };
-            let winner = if total > 0.0 && first - second > 1e-9 * total {
-                seats[order[0]] += self.districts[d].seats;
-                Some(order[0])
-            } else {
-                None
-            };
-            winners.push(winner);
-            margins.push(margin);
-        }
-        let cast_total: f64 = votes.iter().flatten().sum();
-        let national_share = (0..np)
-            .map(|k| votes.iter().map(|v| v[k]).sum::<f64>() / cast_total)
-            .collect();
-        Tally {
-            seats,
-            winners,
-            margins,
-            national_share,
-        }
+    /// The core's tally with a margin shift per group in points toward A.
+    pub fn tally(&self, margin_shift: &[f64]) -> Result<Tally, String> {
+        let core = self.core()?;
+        let shifts = stratamap::tally::Shifts {
+            turnout: vec![0.0; core.group_count()],
+            margin: (0..core.group_count())
+                .map(|g| margin_shift.get(g).copied().unwrap_or(0.0))
+                .collect(),
+        };
+        let t = stratamap::tally::tally(&core, &shifts);
+        Ok(Tally {
+            seats: t.seats.iter().map(|&s| s as u32).collect(),
+            winners: t.winner.clone(),
+            margins: t.margin.clone(),
+            national_share: t.shares(),
+        })
     }
 
     /// A readable summary of a tally for stdout.

@@ -267,7 +267,7 @@ fn regions_are_few_and_contiguous() {
 #[test]
 fn the_baseline_is_close() {
     let ds = &demo().dataset;
-    let tally = ds.tally(&vec![0.0; ds.groups.len()]);
+    let tally = ds.tally(&vec![0.0; ds.groups.len()]).unwrap();
     let majority = ds.majority();
     assert!(
         tally.leader_seats().abs_diff(majority) <= 3,
@@ -297,7 +297,7 @@ fn the_poll_is_plausible_and_differs_from_the_baseline() {
         assert!((120..=180).contains(&p.design_effect));
         assert_eq!(p.shares.iter().sum::<u32>(), crate::model::POLL_UNITS);
     }
-    let swing = ds.poll_swing();
+    let swing = ds.poll_swing().unwrap();
     let moved = swing.iter().filter(|s| s.abs() >= 1.0).count();
     assert!(moved * 2 >= swing.len(), "poll swings {swing:?}");
     assert!(
