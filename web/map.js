@@ -57,6 +57,8 @@ export class DistrictMap {
     // Thinner edges when districts are many and small, so the fills stay readable.
     const n = info.districts.length;
     svg.style.setProperty('--edge-width', n > 1500 ? '0.25px' : n > 400 ? '0.5px' : '0.8px');
+    // Many small shapes: skip anti-aliasing, which is most of the cost of a repaint.
+    svg.classList.toggle('sm-dense', n > 1500);
     const paths = [...svg.querySelectorAll('path.sm-district')];
     if (paths.length !== info.districts.length) {
       throw new Error(
