@@ -69,7 +69,10 @@ fn main() {
     let mut shifts = Shifts::zero(&ds);
     let mut t = Tally::default();
     tally_into(&ds, &shifts, 0.0, None, &mut t);
-    let reps = 2000;
+    let reps: usize = std::env::var("STRATAMAP_BENCH_REPS")
+        .ok()
+        .and_then(|v| v.parse().ok())
+        .unwrap_or(2000);
     let mut times = Vec::with_capacity(reps);
     for i in 0..reps {
         shifts.margin[i % 24] = (i % 40) as f64 - 20.0;

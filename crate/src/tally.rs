@@ -16,6 +16,9 @@
 use crate::dataset::Dataset;
 use crate::scenario::Scenario;
 
+/// Most parties a dataset may have (SPEC 1.1).
+pub const MAX_PARTIES: usize = 12;
+
 /// Effective shifts per group, in points, after `all` and (when starting from the poll)
 /// the poll's swing are added.
 #[derive(Debug, Clone, PartialEq)]
@@ -76,7 +79,17 @@ pub fn poll_swing(ds: &Dataset) -> Option<Vec<f64>> {
 /// New turnout rate of a cell and whether the clamp to [0, 1] bit.
 #[inline]
 pub fn shifted_turnout(tau: f64, shift_points: f64) -> (f64, bool) {
-    let t = tau + shift_points / 100.0;
+    clamp_rate(tau + turnout_fraction(shift_points))
+}
+
+/// A turnout shift in points as a fraction of the eligible.
+#[inline]
+fn turnout_fraction(shift_points: f64) -> f64 {
+    shift_points / 100.0
+}
+
+#[inline]
+fn clamp_rate(t: f64) -> (f64, bool) {
     if t < 0.0 {
         (0.0, true)
     } else if t > 1.0 {
@@ -152,6 +165,8 @@ pub struct Tally {
     pub turnout_clamped: u32,
     /// Cells (with eligible > 0) where the margin limit bit.
     pub margin_limited: u32,
+    /// Scratch: the turnout shifts as fractions.
+    turnout_fraction: Vec<f64>,
 }
 
 impl Tally {
@@ -239,37 +254,49 @@ pub fn tally_into(
     out.margin_limited = 0;
 
     let cells = &ds.cells;
+    // Divide once per group, not once per cell.
+    out.turnout_fraction.clear();
+    out.turnout_fraction
+        .extend(shifts.turnout.iter().map(|&v| turnout_fraction(v)));
     for d in 0..d_count {
         let extra = uniform + per_district.map_or(0.0, |p| p.get(d).copied().unwrap_or(0.0));
-        let votes = &mut out.votes[d * k_count..(d + 1) * k_count];
+        // Accumulate in a local array (at most 12 parties) so the sums stay in registers.
+        let mut acc = [0.0f64; MAX_PARTIES];
+        let acc = &mut acc[..k_count];
+        let (mut clamped_here, mut limited_here) = (0u32, 0u32);
         let mut eligible = 0.0;
-        let rows = cells.eligible[d * g_count..(d + 1) * g_count]
-            .iter()
-            .zip(&cells.turnout[d * g_count..(d + 1) * g_count])
-            .zip(
-                cells.shares[d * g_count * k_count..(d + 1) * g_count * k_count]
-                    .chunks_exact(k_count),
-            )
-            .zip(shifts.turnout.iter().zip(&shifts.margin))
-            .zip(out.group_cast.iter_mut().zip(out.group_ab.iter_mut()));
-        for ((((&n, &tau), s), (&dt, &dm)), (gc, gab)) in rows {
+        let (lo, hi) = (d * g_count, (d + 1) * g_count);
+        let n_row = &cells.eligible[lo..hi];
+        let tau_row = &cells.turnout[lo..hi];
+        let s_row = &cells.shares[lo * k_count..hi * k_count];
+        let dt_row = &out.turnout_fraction[..g_count];
+        let dm_row = &shifts.margin[..g_count];
+        let gc_row = &mut out.group_cast[..g_count];
+        let gab_row = &mut out.group_ab[..g_count];
+        for g in 0..g_count {
+            let n = n_row[g];
             if n <= 0.0 {
                 continue;
             }
             eligible += n;
-            let (t, clamped) = shifted_turnout(tau, dt);
-            let (x, limited) = transfer(s[a], s[b], dm + extra);
-            out.turnout_clamped += u32::from(clamped);
-            out.margin_limited += u32::from(limited);
+            let s = &s_row[g * k_count..(g + 1) * k_count];
+            let (t, clamped) = clamp_rate(tau_row[g] + dt_row[g]);
+            let (x, limited) = transfer(s[a], s[b], dm_row[g] + extra);
+            clamped_here += u32::from(clamped);
+            limited_here += u32::from(limited);
             let w = n * t;
-            for (v, p) in votes.iter_mut().zip(s) {
-                *v += w * p;
+            for k in 0..k_count {
+                acc[k] += w * s[k];
             }
-            votes[a] += w * x;
-            votes[b] -= w * x;
-            *gc += w;
-            *gab += w * (s[a] - s[b] + 2.0 * x);
+            acc[a] += w * x;
+            acc[b] -= w * x;
+            gc_row[g] += w;
+            gab_row[g] += w * (s[a] - s[b] + 2.0 * x);
         }
+        out.turnout_clamped += clamped_here;
+        out.margin_limited += limited_here;
+        let votes = &mut out.votes[d * k_count..(d + 1) * k_count];
+        votes.copy_from_slice(acc);
         // Rounding can leave -1e-13 where B gave everything away.
         votes[b] = votes[b].max(0.0);
         let cast: f64 = votes.iter().sum();
