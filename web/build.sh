@@ -27,11 +27,11 @@ if [ "$(wasm-bindgen --version 2>/dev/null || true)" != "wasm-bindgen ${WASM_BIN
 fi
 
 log "building the engine for wasm32"
-cargo build -p stratamap --lib --release --target wasm32-unknown-unknown
+cargo build -p stratamap --lib --profile wasm --target wasm32-unknown-unknown
 
 log "generating web/pkg"
 wasm-bindgen --target web --no-typescript --remove-name-section --remove-producers-section --out-dir web/pkg --out-name stratamap \
-  "$TARGET_DIR/wasm32-unknown-unknown/release/stratamap.wasm"
+  "$TARGET_DIR/wasm32-unknown-unknown/wasm/stratamap.wasm"
 
 log "copying the demo dataset to web/maps-demo"
 mkdir -p web/maps-demo

@@ -235,7 +235,9 @@ pub fn tally_into(
     out: &mut Tally,
 ) {
     let (k_count, g_count, d_count) = (ds.party_count(), ds.group_count(), ds.district_count());
-    let [a, b] = ds.axis;
+    // The axis is valid for a loaded dataset; the bound also lets the compiler drop the
+    // index checks in the loop below.
+    let [a, b] = ds.axis.map(|i| i.min(k_count.saturating_sub(1)));
     reset(&mut out.votes, d_count * k_count);
     reset(&mut out.cast, d_count);
     reset(&mut out.eligible, d_count);
@@ -273,6 +275,8 @@ pub fn tally_into(
         let dm_row = &shifts.margin[..g_count];
         let gc_row = &mut out.group_cast[..g_count];
         let gab_row = &mut out.group_ab[..g_count];
+        // Share moved from B to A, summed over the district's groups (votes).
+        let mut moved = 0.0;
         for g in 0..g_count {
             let n = n_row[g];
             if n <= 0.0 {
@@ -280,19 +284,21 @@ pub fn tally_into(
             }
             eligible += n;
             let s = &s_row[g * k_count..(g + 1) * k_count];
+            let (pa, pb) = (s[a], s[b]);
             let (t, clamped) = clamp_rate(tau_row[g] + dt_row[g]);
-            let (x, limited) = transfer(s[a], s[b], dm_row[g] + extra);
+            let (x, limited) = transfer(pa, pb, dm_row[g] + extra);
             clamped_here += u32::from(clamped);
             limited_here += u32::from(limited);
             let w = n * t;
             for k in 0..k_count {
                 acc[k] += w * s[k];
             }
-            acc[a] += w * x;
-            acc[b] -= w * x;
+            moved += w * x;
             gc_row[g] += w;
-            gab_row[g] += w * (s[a] - s[b] + 2.0 * x);
+            gab_row[g] += w * (pa - pb + 2.0 * x);
         }
+        acc[a] += moved;
+        acc[b] -= moved;
         out.turnout_clamped += clamped_here;
         out.margin_limited += limited_here;
         let votes = &mut out.votes[d * k_count..(d + 1) * k_count];
