@@ -1,28 +1,20 @@
 // The demo dataset loads, and what the page shows equals `stratamap tally` (the command
 // line runs the same Rust core natively; SPEC 4 is the reference for its columns).
-import { test, before, after } from 'node:test';
+import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import path from 'node:path';
 import {
-  DEMO, startSite, launchBrowser, openPage, readPage, cliTally, featureCount, readJson,
+  DEMO, openPage, readPage, cliTally, featureCount, readJson,
   assertMatchesTally, fmt1,
+  useSite,
 } from './helpers.mjs';
 
-let site;
-let browser;
 const demoManifest = path.join(DEMO, 'dataset.json');
 
-before(async () => {
-  site = await startSite();
-  browser = await launchBrowser();
-});
-after(async () => {
-  await browser?.close();
-  await site?.close();
-});
+const env = useSite();
 
 test('the demo loads with one path per district and the results of `stratamap tally`', async () => {
-  const { page, context, problems } = await openPage(browser, site, '');
+  const { page, context, problems } = await openPage(env.browser, env.site, '');
   const state = await readPage(page);
   assert.equal(state.pathCount, featureCount(path.join(DEMO, 'districts.geojson')));
   assertMatchesTally(assert, state, cliTally(demoManifest, ''));
@@ -42,7 +34,7 @@ test('the demo loads with one path per district and the results of `stratamap ta
 });
 
 test('a district shows its numbers on focus, hover and tap', async () => {
-  const { page, context } = await openPage(browser, site, '');
+  const { page, context } = await openPage(env.browser, env.site, '');
   const tally = cliTally(demoManifest, '');
   const parties = readJson(demoManifest).parties;
   const nameOf = (id) => (id === 'tie' ? 'Tie' : parties.find((p) => p.id === id).name);
@@ -81,7 +73,7 @@ test('a district shows its numbers on focus, hover and tap', async () => {
 });
 
 test('the results table sorts by a column with the mouse and with Enter', async () => {
-  const { page, context } = await openPage(browser, site, '');
+  const { page, context } = await openPage(env.browser, env.site, '');
   const tally = cliTally(demoManifest, '');
   const header = page.locator('#results-table thead th[data-key="margin"]');
   await header.locator('button').click();

@@ -1,27 +1,19 @@
 // Moving a slider with the pointer and with the keyboard repaints the districts whose
 // winner changes, the seats and the address bar; all of it equals `stratamap tally` run
 // with the scenario string the address bar then holds.
-import { test, before, after } from 'node:test';
+import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import path from 'node:path';
 import {
-  DEMO, startSite, launchBrowser, openPage, readPage, waitSettled, cliTally, readJson,
+  DEMO, openPage, readPage, waitSettled, cliTally, readJson,
   assertMatchesTally, scenarioOf,
+  useSite,
 } from './helpers.mjs';
 
-let site;
-let browser;
 const demoManifest = path.join(DEMO, 'dataset.json');
 const manifest = readJson(demoManifest);
 
-before(async () => {
-  site = await startSite();
-  browser = await launchBrowser();
-});
-after(async () => {
-  await browser?.close();
-  await site?.close();
-});
+const env = useSite();
 
 /** Compare before/after against the CLI before/after: the right districts changed fill. */
 function assertRepaint(before, afterState, tallyBefore, tallyAfter) {
@@ -36,7 +28,7 @@ function assertRepaint(before, afterState, tallyBefore, tallyAfter) {
 }
 
 test('dragging and clicking a slider with the pointer repaints what the CLI says changed', async () => {
-  const { page, context, problems } = await openPage(browser, site, '');
+  const { page, context, problems } = await openPage(env.browser, env.site, '');
   const before = await readPage(page);
   const tallyBefore = cliTally(demoManifest, scenarioOf(before.search));
 
@@ -77,7 +69,7 @@ test('dragging and clicking a slider with the pointer repaints what the CLI says
 });
 
 test('arrow keys move a focused slider by its step and repaint', async () => {
-  const { page, context, problems } = await openPage(browser, site, '');
+  const { page, context, problems } = await openPage(env.browser, env.site, '');
   // Starting from the baseline makes the link's start key explicit as well.
   await page.check('#start-baseline');
   await waitSettled(page);

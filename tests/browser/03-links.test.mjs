@@ -1,32 +1,24 @@
 // Share links: a link's scenario shows on the sliders and gives the CLI's results; a bad
 // value is named in the message area while the rest applies (SPEC 3).
-import { test, before, after } from 'node:test';
+import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import path from 'node:path';
 import {
-  DEMO, startSite, launchBrowser, openPage, readPage, cliTally, readJson,
+  DEMO, openPage, readPage, cliTally, readJson,
   assertMatchesTally, scenarioOf,
+  useSite,
 } from './helpers.mjs';
 
-let site;
-let browser;
 const demoManifest = path.join(DEMO, 'dataset.json');
 const manifest = readJson(demoManifest);
 const G = manifest.groups[1].id; // a real group of the demo
 const gIndex = 1;
 
-before(async () => {
-  site = await startSite();
-  browser = await launchBrowser();
-});
-after(async () => {
-  await browser?.close();
-  await site?.close();
-});
+const env = useSite();
 
 test('a link with values shows them on the sliders and the matching results', async () => {
   const query = `turnout=all:3,${G}:-5&margin=${G}:4`;
-  const { page, context, problems } = await openPage(browser, site, `?${query}`);
+  const { page, context, problems } = await openPage(env.browser, env.site, `?${query}`);
   assert.equal(await page.inputValue('#turnout-all'), '3');
   assert.equal(await page.textContent('#turnout-all-value'), '+3.0');
   assert.equal(await page.inputValue(`#turnout-${gIndex}`), '-5');
@@ -46,7 +38,7 @@ test('a link with values shows them on the sliders and the matching results', as
 
 test('a value beyond the sliders\' range still applies and shows its number', async () => {
   const query = `turnout=${G}:35.25`;
-  const { page, context } = await openPage(browser, site, `?${query}`);
+  const { page, context } = await openPage(env.browser, env.site, `?${query}`);
   assert.equal(await page.textContent(`#turnout-${gIndex}-value`), '+35.25');
   assert.ok(Number(await page.getAttribute(`#turnout-${gIndex}`, 'max')) >= 35.25);
   assert.equal(Number(await page.inputValue(`#turnout-${gIndex}`)), 35.25);
@@ -55,7 +47,7 @@ test('a value beyond the sliders\' range still applies and shows its number', as
 });
 
 test('a bad value is named in the message area and the rest still applies', async () => {
-  const { page, context, problems } = await openPage(browser, site, `?turnout=${G}:500&margin=all:2`);
+  const { page, context, problems } = await openPage(env.browser, env.site, `?turnout=${G}:500&margin=all:2`);
   const state = await readPage(page);
   assert.match(state.statusText, /turnout/);
   assert.ok(await page.isVisible('#messages-status .message'));
@@ -70,7 +62,7 @@ test('a bad value is named in the message area and the rest still applies', asyn
 });
 
 test('an unknown group and an unknown key are reported and ignored', async () => {
-  const { page, context } = await openPage(browser, site, '?margin=nosuchgroup:3,all:-1.5&colour=teal');
+  const { page, context } = await openPage(env.browser, env.site, '?margin=nosuchgroup:3,all:-1.5&colour=teal');
   const state = await readPage(page);
   assert.match(state.statusText, /nosuchgroup/);
   assert.match(state.statusText, /colour/);
@@ -79,8 +71,8 @@ test('an unknown group and an unknown key are reported and ignored', async () =>
 });
 
 test('a preset applies its scenario and Copy link copies the address', async () => {
-  const { page, context } = await openPage(browser, site, '');
-  await context.grantPermissions(['clipboard-read', 'clipboard-write'], { origin: site.url.replace(/\/$/, '') });
+  const { page, context } = await openPage(env.browser, env.site, '');
+  await context.grantPermissions(['clipboard-read', 'clipboard-write'], { origin: env.site.url.replace(/\/$/, '') });
   const preset = manifest.presets?.[0];
   assert.ok(preset, 'the demo has presets');
   await page.getByRole('button', { name: preset.name, exact: true }).click();

@@ -3,31 +3,23 @@
 //
 // The fixtures in tests/fixtures/ are served by the test's own server at /test-fixtures/
 // on the page's origin (see startSite in helpers.mjs); nothing is copied into web/.
-import { test, before, after } from 'node:test';
+import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import fs from 'node:fs';
 import path from 'node:path';
 import {
-  FIXTURES, startSite, launchBrowser, openPage, readPage, waitSettled, cliTally, featureCount,
+  FIXTURES, openPage, readPage, waitSettled, cliTally, featureCount,
   readJson, assertMatchesTally, scenarioOf,
+  useSite,
 } from './helpers.mjs';
 
-let site;
-let browser;
 
-before(async () => {
-  site = await startSite();
-  browser = await launchBrowser();
-});
-after(async () => {
-  await browser?.close();
-  await site?.close();
-});
+const env = useSite();
 
 test('?data= opens a second dataset with its own map', async () => {
   const dir = path.join(FIXTURES, 'small');
   const dataParam = 'test-fixtures/small/dataset.json';
-  const { page, context, problems } = await openPage(browser, site, `?data=${dataParam}`);
+  const { page, context, problems } = await openPage(env.browser, env.site, `?data=${dataParam}`);
   const state = await readPage(page);
   assert.equal(state.pathCount, featureCount(path.join(dir, 'districts.geojson')));
   assertMatchesTally(assert, state, cliTally(dir, ''));
@@ -49,7 +41,7 @@ test('?data= opens a second dataset with its own map', async () => {
 });
 
 test('a broken dataset is explained, naming the file and row', async () => {
-  const { page, context } = await openPage(browser, site, '?data=test-fixtures/broken/dataset.json', { expectError: true });
+  const { page, context } = await openPage(env.browser, env.site, '?data=test-fixtures/broken/dataset.json', { expectError: true });
   const state = await readPage(page);
   assert.match(state.errorText, /electorate\.csv/);
   assert.match(state.errorText, /row 3/);
@@ -62,7 +54,7 @@ test('names that look like markup are shown as text and run nothing', async () =
   const dir = path.join(FIXTURES, 'hostile');
   const manifest = readJson(path.join(dir, 'dataset.json'));
   const geo = readJson(path.join(dir, 'districts.geojson'));
-  const { page, context } = await openPage(browser, site, '?data=test-fixtures/hostile/dataset.json');
+  const { page, context } = await openPage(env.browser, env.site, '?data=test-fixtures/hostile/dataset.json');
 
   // Exercise the places where names appear: details on hover and focus, a preset, sorting.
   for (let i = 0; i < geo.features.length; i += 1) {
@@ -107,7 +99,7 @@ test('names that look like markup are shown as text and run nothing', async () =
 
 test('dataset addresses on other sites or with other schemes are refused', async () => {
   for (const bad of ['https://elsewhere.invalid/x.json', 'javascript:alert(1)', 'data:application/json,{}', '//elsewhere.invalid/x.json']) {
-    const context = await browser.newContext();
+    const context = await env.browser.newContext();
     const page = await context.newPage();
     const requests = [];
     let dialog = false;
@@ -116,13 +108,13 @@ test('dataset addresses on other sites or with other schemes are refused', async
       dialog = true;
       await d.dismiss();
     });
-    await page.goto(`${site.url}?data=${encodeURIComponent(bad)}`);
+    await page.goto(`${env.site.url}?data=${encodeURIComponent(bad)}`);
     await page.waitForSelector('#app[data-state="error"]', { state: 'attached' });
     const text = await page.textContent('#messages-error');
     assert.match(text, /refused/, `${bad}: ${text}`);
     assert.ok(text.includes(bad), `the message names the address: ${text}`);
     assert.equal(dialog, false);
-    assert.ok(requests.every((u) => u.startsWith(site.url)), `only the page's own site was asked: ${requests.join(' ')}`);
+    assert.ok(requests.every((u) => u.startsWith(env.site.url)), `only the page's own env.site was asked: ${requests.join(' ')}`);
     assert.equal(await page.locator('#map path').count(), 0);
     await context.close();
   }

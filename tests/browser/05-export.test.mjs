@@ -1,23 +1,15 @@
 // "Download CSV" gives exactly what `stratamap tally` prints for the scenario on screen.
-import { test, before, after } from 'node:test';
+import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import fs from 'node:fs';
 import path from 'node:path';
 import {
-  DEMO, FIXTURES, startSite, launchBrowser, openPage, readPage, waitSettled, cliTally, readJson, scenarioOf,
+  DEMO, FIXTURES, openPage, readPage, waitSettled, cliTally, readJson, scenarioOf,
+  useSite,
 } from './helpers.mjs';
 
-let site;
-let browser;
 
-before(async () => {
-  site = await startSite();
-  browser = await launchBrowser();
-});
-after(async () => {
-  await browser?.close();
-  await site?.close();
-});
+const env = useSite();
 
 async function download(page) {
   const [dl] = await Promise.all([page.waitForEvent('download'), page.click('#download-csv')]);
@@ -28,7 +20,7 @@ async function download(page) {
 test('the exported CSV equals the CLI byte for byte (demo, after moving sliders)', async () => {
   const demo = path.join(DEMO, 'dataset.json');
   const g = readJson(demo).groups[2].id;
-  const { page, context } = await openPage(browser, site, `?turnout=${g}:-4.5&margin=all:1.5`);
+  const { page, context } = await openPage(env.browser, env.site, `?turnout=${g}:-4.5&margin=all:1.5`);
   assert.equal(await download(page), cliTally(demo, `turnout=${g}:-4.5&margin=all:1.5`).csv);
 
   await page.focus('#turnout-all');
@@ -41,7 +33,7 @@ test('the exported CSV equals the CLI byte for byte (demo, after moving sliders)
 
 test('the exported CSV equals the CLI for names that need quoting', async () => {
   const dir = path.join(FIXTURES, 'hostile');
-  const { page, context } = await openPage(browser, site, '?data=test-fixtures/hostile/dataset.json&start=baseline');
+  const { page, context } = await openPage(env.browser, env.site, '?data=test-fixtures/hostile/dataset.json&start=baseline');
   const csv = await download(page);
   assert.equal(csv, cliTally(dir, 'start=baseline').csv);
   assert.match(csv, /""/, 'a name with quotes is quoted in the CSV');

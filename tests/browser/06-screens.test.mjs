@@ -1,30 +1,21 @@
 // Screenshots at desktop and phone width (written to tests/output/ for a person to look
 // at), and the layout checks that can be made by machine: nothing wider than a phone,
 // the map before the sliders, and the caution on screen.
-import { test, before, after } from 'node:test';
+import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import fs from 'node:fs';
 import path from 'node:path';
-import { OUTPUT, startSite, launchBrowser, openPage, readJson, DEMO } from './helpers.mjs';
+import { OUTPUT, openPage, readJson, DEMO, useSite } from './helpers.mjs';
 
-let site;
-let browser;
 
-before(async () => {
-  fs.mkdirSync(OUTPUT, { recursive: true });
-  site = await startSite();
-  browser = await launchBrowser();
-});
-after(async () => {
-  await browser?.close();
-  await site?.close();
-});
+fs.mkdirSync(OUTPUT, { recursive: true });
+const env = useSite();
 
 const g = readJson(path.join(DEMO, 'dataset.json')).groups[0].id;
 const scenario = `?turnout=${g}:-6&margin=all:1.5`;
 
 test('desktop 1280x900', async () => {
-  const { page, context, problems } = await openPage(browser, site, scenario, { viewport: { width: 1280, height: 900 } });
+  const { page, context, problems } = await openPage(env.browser, env.site, scenario, { viewport: { width: 1280, height: 900 } });
   // Bring the results table in (it fills while on screen), then back to the top.
   await page.locator('#results-table').scrollIntoViewIfNeeded();
   await page.waitForSelector('#results-table[data-fresh="true"]', { state: 'attached' });
@@ -44,7 +35,7 @@ test('desktop 1280x900', async () => {
 });
 
 test('phone 375x812', async () => {
-  const { page, context, problems } = await openPage(browser, site, scenario, { viewport: { width: 375, height: 812 } });
+  const { page, context, problems } = await openPage(env.browser, env.site, scenario, { viewport: { width: 375, height: 812 } });
   await page.locator('#results-table').scrollIntoViewIfNeeded();
   await page.waitForSelector('#results-table[data-fresh="true"]', { state: 'attached' });
   await page.evaluate(() => window.scrollTo(0, 0));

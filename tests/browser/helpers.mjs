@@ -4,6 +4,7 @@ import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { before, after } from 'node:test';
 import { chromium } from 'playwright-core';
 import { startServer } from '../static-server.mjs';
 
@@ -34,6 +35,23 @@ export function startSite() {
     }
   }
   return startServer({ root: WEB, port: 0, mounts: { '/test-fixtures/': FIXTURES } });
+}
+
+/**
+ * One static site and one browser for all the tests of a file: started before them,
+ * closed after them. Read `env.site` and `env.browser` inside the tests.
+ */
+export function useSite() {
+  const env = { site: null, browser: null };
+  before(async () => {
+    env.site = await startSite();
+    env.browser = await launchBrowser();
+  });
+  after(async () => {
+    await env.browser?.close();
+    await env.site?.close();
+  });
+  return env;
 }
 
 export function launchBrowser() {
