@@ -1,5 +1,7 @@
 //! Times the tally on a generated 3,000-district × 24-group × 4-party dataset.
 //! Run with `cargo bench -p stratamap --bench tally`; it prints figures, asserts nothing.
+//! `STRATAMAP_BENCH_REPS` sets the number of recomputes (2,000), and
+//! `STRATAMAP_BENCH_DISTRICTS` the number of districts (3,000).
 
 use geo::{polygon, MultiPolygon};
 use std::hint::black_box;
@@ -65,7 +67,11 @@ fn dataset(d_count: usize, g_count: usize, k_count: usize) -> Dataset {
 }
 
 fn main() {
-    let ds = dataset(3000, 24, 4);
+    let districts: usize = std::env::var("STRATAMAP_BENCH_DISTRICTS")
+        .ok()
+        .and_then(|v| v.parse().ok())
+        .unwrap_or(3000);
+    let ds = dataset(districts, 24, 4);
     let mut shifts = Shifts::zero(&ds);
     let mut t = Tally::default();
     tally_into(&ds, &shifts, 0.0, None, &mut t);
@@ -85,7 +91,7 @@ fn main() {
     times.sort_by(f64::total_cmp);
     let p = |q: f64| times[((times.len() - 1) as f64 * q) as usize];
     println!(
-        "tally 3000 districts x 24 groups x 4 parties: p50 {:.3} ms, p95 {:.3} ms, min {:.3} ms ({reps} runs)",
+        "tally {districts} districts x 24 groups x 4 parties: p50 {:.3} ms, p95 {:.3} ms, min {:.3} ms ({reps} runs)",
         p(0.5),
         p(0.95),
         times[0]

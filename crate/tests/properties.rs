@@ -6,7 +6,7 @@ mod common;
 use proptest::prelude::*;
 use stratamap::dataset::{Dataset, Sources};
 use stratamap::scenario::Scenario;
-use stratamap::tally::{cell, tally, Shifts};
+use stratamap::tally::{cell, tally, tally_into, tally_reference, Shifts, Tally};
 use stratamap::testdata;
 
 fn dataset_strategy() -> impl Strategy<Value = Dataset> {
@@ -79,6 +79,56 @@ proptest! {
         prop_assert!(tl.total_cast() == 0.0 || (shares - 1.0).abs() < 1e-9);
         for d in 0..ds.district_count() {
             prop_assert!(tl.turnout_percent(d) <= 100.0 + 1e-9 && tl.turnout_percent(d) >= 0.0);
+        }
+    }
+
+    /// The fast tally (one compiled loop per party count) agrees with the cell-by-cell
+    /// reference, with empty cells, any axis and extra shifts per district.
+    #[test]
+    fn fast_tally_matches_reference(
+        ds in (1usize..9, 1usize..6, 2usize..7, prop::collection::vec(0.0f64..1.0, 16..64))
+            .prop_map(|(d, g, k, v)| common::synthetic(d, g, k, &v)),
+        empty in prop::collection::vec(any::<bool>(), 1..13),
+        axis in (0usize..6, 1usize..6),
+        t in prop::collection::vec(-100.0f64..100.0, 1..5),
+        m in prop::collection::vec(-100.0f64..100.0, 1..5),
+        uniform in -40.0f64..40.0,
+        per_district in prop::option::of(prop::collection::vec(-40.0f64..40.0, 1..9)),
+    ) {
+        let mut ds = ds;
+        let k = ds.party_count();
+        ds.axis = [axis.0 % k, (axis.0 + axis.1 % (k - 1).max(1)) % k];
+        prop_assume!(ds.axis[0] != ds.axis[1]);
+        // Every fourth cell (by the mask) has nobody eligible, as a missing CSV pair does.
+        for (c, n) in ds.cells.eligible.iter_mut().enumerate() {
+            if empty[c % empty.len()] && c % 4 == 0 {
+                *n = 0.0;
+            }
+        }
+        let sh = shifts_for(&ds, &t, &m);
+        let extras = per_district.map(|p| (0..ds.district_count()).map(|d| p[d % p.len()]).collect::<Vec<_>>());
+        let (mut fast, mut slow) = (Tally::default(), Tally::default());
+        tally_into(&ds, &sh, uniform, extras.as_deref(), &mut fast);
+        tally_reference(&ds, &sh, uniform, extras.as_deref(), &mut slow);
+        prop_assert_eq!(fast.turnout_clamped, slow.turnout_clamped);
+        prop_assert_eq!(fast.margin_limited, slow.margin_limited);
+        prop_assert_eq!(&fast.eligible, &slow.eligible);
+        for d in 0..ds.district_count() {
+            let tol = 1e-9 * slow.cast[d].max(1.0);
+            for (x, y) in fast.district_votes(d).iter().zip(slow.district_votes(d)) {
+                prop_assert!((x - y).abs() <= tol, "district {d}: {x} vs {y}");
+            }
+            // Winners agree unless the race is a tie to within rounding.
+            if slow.margin[d] > 1e-6 {
+                prop_assert_eq!(fast.winner[d], slow.winner[d]);
+            }
+        }
+        for (x, y) in fast.group_cast.iter().zip(&slow.group_cast).chain(fast.group_ab.iter().zip(&slow.group_ab)) {
+            prop_assert!((x - y).abs() <= 1e-9 * y.abs().max(1.0), "{x} vs {y}");
+        }
+        if slow.margin.iter().all(|m| *m > 1e-6) {
+            prop_assert_eq!(&fast.seats, &slow.seats);
+            prop_assert_eq!(fast.majority_party, slow.majority_party);
         }
     }
 
