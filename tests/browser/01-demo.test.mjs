@@ -17,7 +17,11 @@ test('the demo loads with one path per district and the results of `stratamap ta
   const { page, context, problems } = await openPage(env.browser, env.site, '');
   const state = await readPage(page);
   assert.equal(state.pathCount, featureCount(path.join(DEMO, 'districts.geojson')));
-  assertMatchesTally(assert, state, cliTally(demoManifest, ''));
+  const tally = cliTally(demoManifest, '');
+  assertMatchesTally(assert, state, tally);
+  // The command line's CSV keeps SPEC 4's columns; its caution and source go to stderr.
+  assert.match(tally.notes, /A scenario, not a forecast/);
+  assert.match(tally.notes, /source: Invented demo data/);
   // Nothing moved: the address stays as opened.
   assert.equal(state.search, '');
   assert.deepEqual(state.csp, []);

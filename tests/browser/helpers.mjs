@@ -1,6 +1,6 @@
 // Shared helpers for the browser tests: the static server, headless Chromium, the
 // command line (the reference the page is checked against), and reading the page.
-import { execFileSync } from 'node:child_process';
+import { spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -94,11 +94,17 @@ export function parseCsv(text) {
   return rows;
 }
 
-/** Run `stratamap tally`; returns {csv, header, rows: [{district, name, seats, winner, margin, turnout, votes}]}. */
+/**
+ * Run `stratamap tally`; returns {csv, notes, header, rows: [{district, name, seats, winner,
+ * margin, turnout, votes}]}. `notes` is what it printed on stderr (caution, source, clamps).
+ */
 export function cliTally(dataset, scenario = '') {
   const args = ['tally', dataset];
   if (scenario) args.push('--scenario', scenario);
-  const csv = execFileSync(CLI, args, { encoding: 'utf8' });
+  const run = spawnSync(CLI, args, { encoding: 'utf8' });
+  if (run.error) throw run.error;
+  if (run.status !== 0) throw new Error(`stratamap ${args.join(' ')} exited ${run.status}: ${run.stderr}`);
+  const { stdout: csv, stderr: notes } = run;
   const [header, ...body] = parseCsv(csv);
   const expected = ['district', 'name', 'seats', 'winner', 'margin', 'turnout'];
   if (expected.some((h, i) => header[i] !== h)) throw new Error(`unexpected tally header: ${header.join(',')}`);
@@ -112,7 +118,7 @@ export function cliTally(dataset, scenario = '') {
     turnout: Number(r[5]),
     votes: r.slice(6).map(Number),
   }));
-  return { csv, header, parties, rows };
+  return { csv, notes, header, parties, rows };
 }
 
 /** Seats per party id from tally rows (ties give nobody seats, SPEC 2.2). */
