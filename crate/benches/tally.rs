@@ -7,7 +7,7 @@ use geo::{polygon, MultiPolygon};
 use std::hint::black_box;
 use std::time::Instant;
 use stratamap::dataset::{Cells, Dataset, District, Files, Group, Party};
-use stratamap::tally::{tally_into, Shifts, Tally};
+use stratamap::model::tally::{tally_into, Shifts, Tally};
 
 fn dataset(d_count: usize, g_count: usize, k_count: usize) -> Dataset {
     // A small linear congruential sequence: reproducible numbers without a dependency.

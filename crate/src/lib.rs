@@ -2,28 +2,26 @@
 //! from it. It knows nothing of the browser or the terminal; the WebAssembly facade
 //! (`wasm`) and the command line (`main.rs`) sit on top of it.
 //!
-//! Dependencies point one way: `dataset` ← `scenario` ← `tally` ← (`tipping`, `curve`,
-//! `plane`, `moe`, `export`, `map`) ← `engine` ← (`wasm`, the command line).
+//! The folders are layers, and dependencies point one way, downwards in this list:
+//!
+//! - [`error`]: problems with their file, row or feature and field;
+//! - [`dataset`]: the input formats, validated into flat district × group arrays;
+//! - [`model`]: the scenario string and the tally kernel;
+//! - [`analysis`]: what reads a tally (tipping point, curve, plane, sampling error,
+//!   simulation);
+//! - [`output`]: shading, CSV and the SVG map;
+//! - [`facade`]: the long-lived engine and its WebAssembly binding; the command line
+//!   (`main.rs`) sits beside it.
 
-pub mod curve;
+pub mod analysis;
 pub mod dataset;
-pub mod engine;
 pub mod error;
-pub mod export;
-pub mod map;
-pub mod moe;
-pub mod plane;
-pub mod scenario;
-pub mod shading;
-pub mod simulate;
-pub mod tally;
-pub mod tipping;
+pub mod facade;
+pub mod model;
+pub mod output;
 
 #[doc(hidden)]
 pub mod testdata;
-
-#[cfg(target_arch = "wasm32")]
-mod wasm;
 
 /// The caution that every view and export carries.
 pub const CAUTION: &str = "A scenario, not a forecast: these results follow from the shifts chosen, not from a prediction. Official results come from the election authorities.";

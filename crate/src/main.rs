@@ -16,8 +16,8 @@ mod cli {
     use std::path::PathBuf;
     use std::process::ExitCode;
     use stratamap::dataset::{load_path, Dataset};
-    use stratamap::engine::Engine;
-    use stratamap::scenario::Scenario;
+    use stratamap::facade::engine::Engine;
+    use stratamap::model::scenario::Scenario;
 
     /// What-if turnout maps: apply a scenario to a dataset's districts.
     #[derive(Parser)]
@@ -148,7 +148,7 @@ mod cli {
         if runs == 0 {
             return Err("runs=0 asks for no simulation; give runs from 1 to 100000".into());
         }
-        let sim = stratamap::simulate::simulate(ds, s, runs);
+        let sim = stratamap::analysis::simulate::simulate(ds, s, runs);
         let parties: Vec<serde_json::Value> = ds
             .parties
             .iter()

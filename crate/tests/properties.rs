@@ -5,8 +5,8 @@ mod common;
 
 use proptest::prelude::*;
 use stratamap::dataset::{Dataset, Sources};
-use stratamap::scenario::Scenario;
-use stratamap::tally::{cell, tally, tally_into, tally_reference, Shifts, Tally};
+use stratamap::model::scenario::Scenario;
+use stratamap::model::tally::{cell, tally, tally_into, tally_reference, Shifts, Tally};
 use stratamap::testdata;
 
 fn dataset_strategy() -> impl Strategy<Value = Dataset> {

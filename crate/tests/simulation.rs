@@ -3,9 +3,9 @@
 //! with Φ from a reference library (statrs).
 
 use statrs::distribution::{ContinuousCDF, Normal};
+use stratamap::analysis::simulate::simulate;
 use stratamap::dataset::{Dataset, Sources};
-use stratamap::scenario::Scenario;
-use stratamap::simulate::simulate;
+use stratamap::model::scenario::Scenario;
 
 const MANIFEST: &str = r##"{"title": "Two parties", "source": "Test data",
   "parties": [{"id": "a", "name": "A", "color": "#226677"}, {"id": "b", "name": "B", "color": "#aa7722"}],

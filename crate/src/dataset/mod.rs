@@ -214,7 +214,7 @@ impl Dataset {
         };
         // Presets are scenario strings: they must parse cleanly against this dataset.
         for (i, preset) in ds.presets.iter().enumerate() {
-            let parsed = crate::scenario::Scenario::parse(&preset.scenario, &ds);
+            let parsed = crate::model::scenario::Scenario::parse(&preset.scenario, &ds);
             for msg in parsed.messages {
                 error.problems.push(Problem::new(
                     MANIFEST,

@@ -350,19 +350,19 @@ impl Dataset {
     /// Margin shift per group (points toward A) when a scenario starts from the poll:
     /// the core's poll swing (SPEC 2.1). Empty when there is no poll.
     pub fn poll_swing(&self) -> Result<Vec<f64>, String> {
-        Ok(stratamap::tally::poll_swing(&self.core()?).unwrap_or_default())
+        Ok(stratamap::model::tally::poll_swing(&self.core()?).unwrap_or_default())
     }
 
     /// The core's tally with a margin shift per group in points toward A.
     pub fn tally(&self, margin_shift: &[f64]) -> Result<Tally, String> {
         let core = self.core()?;
-        let shifts = stratamap::tally::Shifts {
+        let shifts = stratamap::model::tally::Shifts {
             turnout: vec![0.0; core.group_count()],
             margin: (0..core.group_count())
                 .map(|g| margin_shift.get(g).copied().unwrap_or(0.0))
                 .collect(),
         };
-        let t = stratamap::tally::tally(&core, &shifts);
+        let t = stratamap::model::tally::tally(&core, &shifts);
         Ok(Tally {
             seats: t.seats.iter().map(|&s| s as u32).collect(),
             winners: t.winner.clone(),

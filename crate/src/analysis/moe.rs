@@ -4,14 +4,14 @@
 //! weighted composite of independent group estimates, and Kish's design effect of weights.
 //!
 //! ```
-//! use stratamap::moe::{moe95, share_se};
+//! use stratamap::analysis::moe::{moe95, share_se};
 //! // 1,000 respondents, p = 0.5: about ±3.1 points.
 //! let m = moe95(share_se(0.5, 1000.0, 1.0)) * 100.0;
 //! assert!((m - 3.099).abs() < 0.001);
 //! ```
 
 use crate::dataset::Dataset;
-use crate::tally::{shifted_turnout, transfer, Shifts, Tally};
+use crate::model::tally::{shifted_turnout, transfer, Shifts, Tally};
 
 /// The 97.5th percentile of the standard normal distribution, for 95% intervals.
 pub const Z95: f64 = 1.959_963_984_540_054;
@@ -127,7 +127,7 @@ pub fn national_share_moe(ds: &Dataset, t: &Tally) -> Option<Vec<f64>> {
 /// group's sampling error of the difference of those two parties' shares.
 pub fn district_moe(ds: &Dataset, shifts: &Shifts, t: &Tally, d: usize) -> Option<f64> {
     let poll = ds.poll.as_ref()?;
-    let (Some(j), Some(k)) = crate::tally::top_two(t.district_votes(d)) else {
+    let (Some(j), Some(k)) = crate::model::tally::top_two(t.district_votes(d)) else {
         return None;
     };
     let cast = t.cast[d];
@@ -252,7 +252,7 @@ mod tests {
         // young: pa 0.55, pb 0.35, n 400, D 1.5: 1.96·sqrt(1.5·(0.9 − 0.04)/400).
         assert!((m[0] - Z95 * (1.5f64 * 0.86 / 400.0).sqrt() * 100.0).abs() < 1e-9);
         let sh = Shifts::zero(&ds);
-        let t = crate::tally::tally(&ds, &sh);
+        let t = crate::model::tally::tally(&ds, &sh);
         // z has only young voters: its MOE is the young group's margin SE with z's shares.
         let z = district_moe(&ds, &sh, &t, 2).unwrap();
         let want = moe95(margin_se(0.95, 0.03, 400.0, 1.5)) * 100.0;

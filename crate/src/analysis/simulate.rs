@@ -9,7 +9,7 @@
 //! Δτ_g + u_g and Δμ_g + e_g + b + η_d. Normal draws use rand_distr's `StandardNormal`.
 //!
 //! ```
-//! use stratamap::{scenario::Scenario, simulate::simulate};
+//! use stratamap::{analysis::simulate::simulate, model::scenario::Scenario};
 //! let ds = stratamap::testdata::two_groups();
 //! let s = Scenario::parse_strict("runs=500&seed=7", &ds).unwrap();
 //! let a = simulate(&ds, &s, 500);
@@ -19,11 +19,11 @@
 //! assert!((p - 1.0).abs() < 1e-12);
 //! ```
 
+use crate::analysis::moe::poll_margin_se;
+use crate::analysis::tipping::tipping_point_with;
 use crate::dataset::Dataset;
-use crate::moe::poll_margin_se;
-use crate::scenario::Scenario;
-use crate::tally::{tally_into, Shifts, Tally};
-use crate::tipping::tipping_point_with;
+use crate::model::scenario::Scenario;
+use crate::model::tally::{tally_into, Shifts, Tally};
 use rand::SeedableRng;
 use rand_distr::{Distribution, StandardNormal};
 use rand_pcg::Pcg64;

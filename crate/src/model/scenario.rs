@@ -4,7 +4,7 @@
 //! ```
 //! # use stratamap::dataset::Dataset;
 //! # let ds = stratamap::testdata::two_groups();
-//! use stratamap::scenario::Scenario;
+//! use stratamap::model::scenario::Scenario;
 //! let parsed = Scenario::parse("margin=young:+2.5,all:-1&turnout=young: 4", &ds);
 //! assert!(parsed.messages.is_empty());
 //! let s = parsed.scenario;

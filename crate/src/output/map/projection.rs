@@ -42,7 +42,7 @@ pub const DEFAULT_WIDTH: f64 = 800.0;
 /// with y pointing north.
 ///
 /// ```
-/// use stratamap::map::projection::Albers;
+/// use stratamap::output::map::projection::Albers;
 /// // Standard parallels 29.5° and 45.5° N, origin 23° N 96° W.
 /// let albers = Albers::new(29.5, 45.5, 23.0, -96.0);
 /// let origin = albers.project(-96.0, 23.0);
@@ -86,7 +86,7 @@ impl Albers {
     ///
     /// ```
     /// use geo::{coord, Rect};
-    /// use stratamap::map::projection::Albers;
+    /// use stratamap::output::map::projection::Albers;
     /// let extent = Rect::new(coord! { x: 10.0, y: 40.0 }, coord! { x: 20.0, y: 46.0 });
     /// assert_eq!(Albers::for_extent(extent), Albers::new(41.0, 45.0, 43.0, 15.0));
     /// ```
@@ -129,7 +129,7 @@ impl Albers {
 ///
 /// ```
 /// use geo::{coord, Rect};
-/// use stratamap::map::projection::Fit;
+/// use stratamap::output::map::projection::Fit;
 /// let fit = Fit::new(Some(Rect::new(coord! { x: 0.0, y: 0.0 }, coord! { x: 2.0, y: 1.0 })), 800.0);
 /// assert_eq!(fit.width, 800.0);
 /// assert_eq!(fit.height, 420.0); // 760 × 380 of map plus 20 on each side

@@ -3,7 +3,7 @@
 //! The quadrant tells which axis party gains and whether the group grows or shrinks.
 //!
 //! ```
-//! use stratamap::{plane::shift_plane, scenario::Scenario, tally::{tally, Shifts}};
+//! use stratamap::{analysis::plane::shift_plane, model::{scenario::Scenario, tally::{tally, Shifts}}};
 //! let ds = stratamap::testdata::two_groups_no_poll();
 //! let base = tally(&ds, &Shifts::zero(&ds));
 //! let s = Scenario::parse_strict("margin=old:4", &ds).unwrap();
@@ -12,7 +12,7 @@
 //! assert!((p[1].y - 4.0).abs() < 1e-9); // no limit bit: the margin moved by exactly 4
 //! ```
 
-use crate::tally::Tally;
+use crate::model::tally::Tally;
 use serde::Serialize;
 
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]

@@ -2,7 +2,7 @@
 //! margin over its nearest rival, best first, and add up seats until the majority.
 //!
 //! ```
-//! use stratamap::{tally::{tally, Shifts}, tipping::tipping_point};
+//! use stratamap::{analysis::tipping::tipping_point, model::tally::{tally, Shifts}};
 //! let ds = stratamap::testdata::two_groups_no_poll();
 //! let t = tally(&ds, &Shifts::zero(&ds));
 //! // Birch leads on votes with 2 seats each; its best districts: z, x, then y.
@@ -10,7 +10,7 @@
 //! ```
 
 use crate::dataset::Dataset;
-use crate::tally::Tally;
+use crate::model::tally::Tally;
 
 /// The party that leads on seats (more votes break a tie, then manifest order).
 pub fn seat_leader(t: &Tally) -> Option<usize> {
@@ -67,8 +67,8 @@ pub fn tipping_point_with(ds: &Dataset, t: &Tally, order: &mut Vec<(f64, usize)>
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::scenario::Scenario;
-    use crate::tally::{tally, Shifts};
+    use crate::model::scenario::Scenario;
+    use crate::model::tally::{tally, Shifts};
     use crate::testdata::two_groups_no_poll;
 
     #[test]

@@ -2,7 +2,7 @@
 //! race, in a few ordered steps from near-even to safe; ties get a hatch pattern.
 //!
 //! ```
-//! use stratamap::shading::{step, mix_with_white};
+//! use stratamap::output::shading::{step, mix_with_white};
 //! assert_eq!(step(0.5), 0);
 //! assert_eq!(step(12.0), 3);
 //! assert_eq!(mix_with_white("#204060", 1.0), "#204060");
@@ -10,7 +10,7 @@
 //! ```
 
 use crate::dataset::Dataset;
-use crate::tally::Tally;
+use crate::model::tally::Tally;
 
 /// Upper bounds of the steps below the last, in points of margin.
 pub const STEP_BOUNDS: [f64; 3] = [2.0, 5.0, 10.0];

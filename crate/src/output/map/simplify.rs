@@ -20,7 +20,7 @@ pub const MIN_RING_COORDS: usize = 4;
 ///
 /// ```
 /// use geo::{polygon, Area};
-/// use stratamap::map::simplify::SimplifyOutline;
+/// use stratamap::output::map::simplify::SimplifyOutline;
 /// // A square whose bottom edge carries points 0.1 units off the line.
 /// let square = polygon![
 ///     (x: 0.0, y: 0.0), (x: 2.0, y: 0.1), (x: 4.0, y: 0.0), (x: 6.0, y: -0.1),

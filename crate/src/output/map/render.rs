@@ -209,7 +209,7 @@ fn districts(layout: &MapLayout, opts: &SvgOptions) -> Group {
 /// Renders the map as an SVG document (a string starting with `<svg`).
 ///
 /// ```
-/// use stratamap::map::{layout, svg, SvgOptions};
+/// use stratamap::output::map::{layout, svg, SvgOptions};
 /// use geo::{polygon, MultiPolygon};
 /// let shapes = vec![MultiPolygon::new(vec![polygon![
 ///     (x: 10.0, y: 50.0), (x: 11.0, y: 50.0), (x: 11.0, y: 51.0), (x: 10.0, y: 51.0),
@@ -356,7 +356,7 @@ pub fn svg(layout: &MapLayout, opts: &SvgOptions) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::map::layout;
+    use crate::output::map::layout;
     use geo::{polygon, MultiPolygon};
 
     fn two_districts() -> MapLayout {

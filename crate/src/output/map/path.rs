@@ -18,7 +18,7 @@ pub const PRECISION: f64 = 0.1;
 ///
 /// ```
 /// use geo::polygon;
-/// use stratamap::map::path::ToPathData;
+/// use stratamap::output::map::path::ToPathData;
 /// let square = polygon![(x: 0.0, y: 0.0), (x: 10.04, y: 0.0), (x: 10.04, y: 10.0), (x: 0.0, y: 10.0)];
 /// assert_eq!(square.to_path_data(), "M0,0 L10,0 L10,10 L0,10 z");
 /// ```

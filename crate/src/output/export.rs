@@ -3,8 +3,8 @@
 //! shortest round-trip form.
 
 use crate::dataset::Dataset;
-use crate::scenario::fmt_number;
-use crate::tally::Tally;
+use crate::model::scenario::fmt_number;
+use crate::model::tally::Tally;
 
 /// The CSV text, header `district,name,seats,winner,margin,turnout,votes_<party>…`.
 pub fn tally_csv(ds: &Dataset, t: &Tally) -> String {
@@ -36,7 +36,7 @@ pub fn tally_csv(ds: &Dataset, t: &Tally) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::tally::{tally, Shifts};
+    use crate::model::tally::{tally, Shifts};
 
     #[test]
     fn tiny_baseline_csv() {

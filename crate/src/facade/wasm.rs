@@ -1,9 +1,9 @@
-//! The WebAssembly facade: a long-lived [`Engine`](crate::engine::Engine) handle for the
+//! The WebAssembly facade: a long-lived [`Engine`](crate::facade::engine::Engine) handle for the
 //! page. JavaScript hands it the dataset's texts once, then moves sliders with small
 //! calls and reads results as typed arrays and small objects (see DEVELOPERS.md).
 
 use crate::dataset::{manifest_files, Dataset, Sources};
-use crate::engine;
+use crate::facade::engine;
 use serde::Serialize;
 use wasm_bindgen::prelude::*;
 
@@ -130,7 +130,7 @@ impl Engine {
 
     pub fn info(&self) -> JsValue {
         let ds = self.inner.dataset();
-        let moes = crate::moe::poll_margin_moe(ds);
+        let moes = crate::analysis::moe::poll_margin_moe(ds);
         let info = Info {
             title: &ds.title,
             source: &ds.source,
@@ -179,7 +179,7 @@ impl Engine {
                     scenario: &p.scenario,
                 })
                 .collect(),
-            steps: crate::shading::step_labels()
+            steps: crate::output::shading::step_labels()
                 .into_iter()
                 .map(|label| StepInfo { label })
                 .collect(),
@@ -204,7 +204,7 @@ impl Engine {
     }
 
     pub fn palette(&self) -> JsValue {
-        to_js(&crate::shading::palette(self.inner.dataset()))
+        to_js(&crate::output::shading::palette(self.inner.dataset()))
     }
 
     /// Apply a scenario string; returns the problems `[{key, message}]`.

@@ -6,7 +6,7 @@
 //! swing to majority is found by bisection.
 //!
 //! ```
-//! use stratamap::{curve::seats_votes, tally::Shifts};
+//! use stratamap::{analysis::curve::seats_votes, model::tally::Shifts};
 //! let ds = stratamap::testdata::two_groups_no_poll();
 //! let c = seats_votes(&ds, &Shifts::zero(&ds), 15.0, 1.0);
 //! assert_eq!(c.shifts.len(), 31);
@@ -17,7 +17,7 @@
 //! ```
 
 use crate::dataset::Dataset;
-use crate::tally::{tally_into, Shifts, Tally};
+use crate::model::tally::{tally_into, Shifts, Tally};
 use serde::Serialize;
 
 /// Largest extra shift searched for the swing to majority, points.

@@ -5,7 +5,7 @@
 //! curves, simulation runs) allocate nothing.
 //!
 //! ```
-//! use stratamap::{scenario::Scenario, tally::{tally, Shifts}};
+//! use stratamap::model::{scenario::Scenario, tally::{tally, Shifts}};
 //! let ds = stratamap::testdata::two_groups_no_poll();
 //! let s = Scenario::parse("margin=all:10", &ds).scenario;
 //! let t = tally(&ds, &Shifts::from_scenario(&ds, &s));
@@ -14,7 +14,7 @@
 //! ```
 
 use crate::dataset::Dataset;
-use crate::scenario::Scenario;
+use crate::model::scenario::Scenario;
 
 /// Most parties a dataset may have (SPEC 1.1).
 pub const MAX_PARTIES: usize = 12;
@@ -530,7 +530,7 @@ pub(crate) fn top_two(v: &[f64]) -> (Option<usize>, Option<usize>) {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::scenario::Scenario;
+    use crate::model::scenario::Scenario;
     use crate::testdata::{two_groups, two_groups_no_poll};
 
     fn close(a: f64, b: f64) {

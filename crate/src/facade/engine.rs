@@ -3,15 +3,15 @@
 //! else. The WebAssembly facade is a thin wrapper around it; it is plain Rust, so the
 //! command line and the tests use it too.
 
-use crate::curve::{seats_votes, Curve};
+use crate::analysis::curve::{seats_votes, Curve};
+use crate::analysis::moe;
+use crate::analysis::plane::{shift_plane, PlanePoint};
+use crate::analysis::tipping::tipping_point;
 use crate::dataset::Dataset;
-use crate::map::{self, MapLayout, SvgOptions};
-use crate::moe;
-use crate::plane::{shift_plane, PlanePoint};
-use crate::scenario::{Message, Scenario, Start, MAX_POINTS};
-use crate::shading;
-use crate::tally::{cell, tally, tally_into, Shifts, Tally};
-use crate::tipping::tipping_point;
+use crate::model::scenario::{Message, Scenario, Start, MAX_POINTS};
+use crate::model::tally::{cell, tally, tally_into, Shifts, Tally};
+use crate::output::map::{self, MapLayout, SvgOptions};
+use crate::output::shading;
 use serde::Serialize;
 
 /// Width of the map in SVG user units.
@@ -288,7 +288,7 @@ impl Engine {
     }
 
     pub fn tally_csv(&self) -> String {
-        crate::export::tally_csv(&self.ds, &self.tally)
+        crate::output::export::tally_csv(&self.ds, &self.tally)
     }
 
     /// The page's inline map: districts only, filled by the page.

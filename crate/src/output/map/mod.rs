@@ -88,7 +88,7 @@ fn map_finite(
 ///
 /// ```
 /// use geo::{polygon, MultiPolygon};
-/// use stratamap::map::layout;
+/// use stratamap::output::map::layout;
 /// let west = polygon![(x: 0.0, y: 0.0), (x: 1.0, y: 0.0), (x: 1.0, y: 1.0), (x: 0.0, y: 1.0)];
 /// let east = polygon![(x: 1.0, y: 0.0), (x: 2.0, y: 0.0), (x: 2.0, y: 1.0), (x: 1.0, y: 1.0)];
 /// let map = layout(&[MultiPolygon::new(vec![west]), MultiPolygon::new(vec![east])], 800.0);

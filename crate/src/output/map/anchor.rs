@@ -12,7 +12,7 @@ use geo::{Area, BoundingRect, Coord, MultiPolygon, Polygon};
 ///
 /// ```
 /// use geo::{polygon, Contains, Point};
-/// use stratamap::map::anchor::LabelAnchor;
+/// use stratamap::output::map::anchor::LabelAnchor;
 /// let l_shape = polygon![
 ///     (x: 0.0, y: 0.0), (x: 10.0, y: 0.0), (x: 10.0, y: 2.0),
 ///     (x: 2.0, y: 2.0), (x: 2.0, y: 10.0), (x: 0.0, y: 10.0),

@@ -1,0 +1,7 @@
+//! Outputs: the map's shading steps and palette, the CSV export and the SVG map.
+//!
+//! Depends on [`crate::dataset`], [`crate::model`] and [`crate::analysis`].
+
+pub mod export;
+pub mod map;
+pub mod shading;
