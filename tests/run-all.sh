@@ -1,6 +1,7 @@
 #!/usr/bin/env bash
 # Every test of stratamap, as CI runs it: formatting, lints, the Rust tests (unit,
-# integration, property and doc tests), then the browser tests against the built page.
+# integration, property and doc tests), the browser tests against the built page, then
+# the cross-checks against reference libraries from PyPI (skipped where unavailable).
 # Installs what a fresh machine lacks (wasm32 target, wasm-bindgen-cli, Chromium,
 # playwright-core) and skips what is already there.
 #
@@ -31,3 +32,6 @@ cargo test --workspace
 
 step "browser tests"
 bash tests/run-browser.sh
+
+step "cross-checks against reference libraries (skipped where Python or the package is missing)"
+bash tests/crosscheck/run.sh

@@ -9,11 +9,14 @@
 //! - [`model`]: the scenario string and the tally kernel;
 //! - [`analysis`]: what reads a tally (tipping point, curve, plane, sampling error,
 //!   simulation);
+//! - [`build`]: datasets built from what analysts have (raking, the example dataset);
+//!   beside `analysis`, on `dataset` and `model`;
 //! - [`output`]: shading, CSV and the SVG map;
 //! - [`facade`]: the long-lived engine and its WebAssembly binding; the command line
 //!   (`main.rs`) sits beside it.
 
 pub mod analysis;
+pub mod build;
 pub mod dataset;
 pub mod error;
 pub mod facade;

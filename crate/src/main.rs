@@ -47,6 +47,33 @@ mod cli {
             #[arg(long, default_value = "")]
             scenario: String,
         },
+        /// Build electorate.csv from per-district margins and a groups table by
+        /// iterative proportional fitting (raking); the report goes to standard error.
+        Rake {
+            /// district,dimension,category,count: eligible people per district by one
+            /// dimension at a time.
+            #[arg(long)]
+            margins: PathBuf,
+            /// group,<dimension>…,eligible,turnout,<party id>…[,region]: each group's
+            /// categories, seed count, baseline turnout and shares.
+            #[arg(long)]
+            groups: PathBuf,
+            /// district,votes_cast,<party id>…: last election's votes, which each
+            /// district's tally is then calibrated to reproduce.
+            #[arg(long)]
+            results: Option<PathBuf>,
+            /// The districts' GeoJSON: district order, and each district's region for
+            /// regional seeds.
+            #[arg(long)]
+            districts: Option<PathBuf>,
+            /// Also write a manifest (dataset.json) proposing parties, groups with their
+            /// categories, and dimensions, to edit.
+            #[arg(long)]
+            manifest: Option<PathBuf>,
+            /// The electorate CSV to write.
+            #[arg(short = 'o', long = "output")]
+            output: PathBuf,
+        },
         /// Write the map of a scenario as a standalone SVG.
         Render {
             dataset: PathBuf,
@@ -197,6 +224,117 @@ mod cli {
             .map_err(|err| format!("cannot write JSON: {err}"))
     }
 
+    fn read_input(p: &std::path::Path) -> Result<(String, String), String> {
+        let name = p
+            .file_name()
+            .map(|n| n.to_string_lossy().into_owned())
+            .unwrap_or_else(|| p.display().to_string());
+        std::fs::read_to_string(p)
+            .map(|t| (name, t))
+            .map_err(|e| format!("cannot read {}: {e}", p.display()))
+    }
+
+    /// `path` relative to `dir`, with forward slashes, for a manifest's file names.
+    fn relative_to(path: &std::path::Path, dir: &std::path::Path) -> Result<String, String> {
+        let abs = |p: &std::path::Path| -> std::path::PathBuf {
+            let p = if p.is_absolute() {
+                p.to_path_buf()
+            } else {
+                std::env::current_dir().unwrap_or_default().join(p)
+            };
+            // Normalise `.` and `..` without touching the file system.
+            let mut out = std::path::PathBuf::new();
+            for c in p.components() {
+                match c {
+                    std::path::Component::CurDir => {}
+                    std::path::Component::ParentDir => {
+                        out.pop();
+                    }
+                    other => out.push(other),
+                }
+            }
+            out
+        };
+        let (p, d) = (abs(path), abs(dir));
+        let rel = p.strip_prefix(&d).map_err(|_| {
+            format!(
+                "{} is not inside the manifest's folder {}; a manifest names its files relative to itself",
+                path.display(),
+                d.display()
+            )
+        })?;
+        let parts: Vec<String> = rel
+            .components()
+            .map(|c| c.as_os_str().to_string_lossy().into_owned())
+            .collect();
+        Ok(parts.join("/"))
+    }
+
+    struct RakeArgs {
+        margins: PathBuf,
+        groups: PathBuf,
+        results: Option<PathBuf>,
+        districts: Option<PathBuf>,
+        manifest: Option<PathBuf>,
+        output: PathBuf,
+    }
+
+    fn rake(a: RakeArgs) -> Result<String, String> {
+        use stratamap::build::rake::{rake, Input, Inputs};
+        let margins = read_input(&a.margins)?;
+        let groups = read_input(&a.groups)?;
+        let results = a.results.as_deref().map(read_input).transpose()?;
+        let districts = a.districts.as_deref().map(read_input).transpose()?;
+        let inputs = Inputs {
+            margins: Input::from((margins.0.as_str(), margins.1.as_str())),
+            groups: Input::from((groups.0.as_str(), groups.1.as_str())),
+            results: results
+                .as_ref()
+                .map(|(n, t)| Input::from((n.as_str(), t.as_str()))),
+            districts: districts
+                .as_ref()
+                .map(|(n, t)| Input::from((n.as_str(), t.as_str()))),
+        };
+        let raked = rake(&inputs).map_err(|e| format!("cannot rake:\n{e}"))?;
+        for line in raked.report() {
+            eprintln!("stratamap: {line}");
+        }
+        let geojson = districts.as_ref().map(|(_, t)| t.as_str());
+        match raked.check_with_tally(geojson) {
+            Ok(Some(worst)) => eprintln!(
+                "stratamap: the tally of the raked electorate reproduces the results: largest difference {worst:.3e} votes"
+            ),
+            Ok(None) => {}
+            Err(e) => return Err(format!("the raked electorate does not load as a dataset (a bug):\n{e}")),
+        }
+        std::fs::write(&a.output, raked.electorate_csv())
+            .map_err(|e| format!("cannot write {}: {e}", a.output.display()))?;
+        eprintln!("stratamap: wrote {}", a.output.display());
+        if let Some(m) = &a.manifest {
+            let dir = m
+                .parent()
+                .filter(|p| !p.as_os_str().is_empty())
+                .unwrap_or(std::path::Path::new("."));
+            let electorate = relative_to(&a.output, dir)?;
+            let districts = match &a.districts {
+                Some(p) => relative_to(p, dir)?,
+                None => "districts.geojson".to_string(),
+            };
+            std::fs::write(m, raked.manifest(&districts, &electorate))
+                .map_err(|e| format!("cannot write {}: {e}", m.display()))?;
+            eprintln!(
+                "stratamap: wrote {} (edit its title, source, names and colours{})",
+                m.display(),
+                if a.districts.is_none() {
+                    "; it expects the map in districts.geojson"
+                } else {
+                    ""
+                }
+            );
+        }
+        Ok(String::new())
+    }
+
     pub fn main() -> ExitCode {
         let cli = match Cli::try_parse() {
             Ok(c) => c,
@@ -218,6 +356,21 @@ mod cli {
             Command::Simulate { dataset, scenario } => {
                 engine(&dataset, &scenario).and_then(|e| simulate(&e))
             }
+            Command::Rake {
+                margins,
+                groups,
+                results,
+                districts,
+                manifest,
+                output,
+            } => rake(RakeArgs {
+                margins,
+                groups,
+                results,
+                districts,
+                manifest,
+                output,
+            }),
             Command::Render {
                 dataset,
                 scenario,

@@ -14,8 +14,10 @@ mod table;
 use crate::error::{DatasetError, Location, Problem};
 use geo::MultiPolygon;
 
+pub(crate) use districts::parse as parse_districts;
 pub use manifest::{manifest_files, Files};
 pub(crate) use number::parse_number;
+pub use table::SHARE_SUM_TOLERANCE;
 
 /// A party on the ballot.
 #[derive(Debug, Clone, PartialEq)]
