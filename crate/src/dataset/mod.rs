@@ -16,6 +16,7 @@ use geo::MultiPolygon;
 
 pub use manifest::{manifest_files, Files};
 pub(crate) use number::parse_number;
+pub use number::round_text;
 
 /// A party on the ballot.
 #[derive(Debug, Clone, PartialEq)]
