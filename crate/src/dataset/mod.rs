@@ -17,6 +17,7 @@ use geo::MultiPolygon;
 pub(crate) use districts::parse as parse_districts;
 pub use manifest::{manifest_files, Files};
 pub(crate) use number::parse_number;
+pub use number::round_text;
 pub use table::SHARE_SUM_TOLERANCE;
 
 /// A party on the ballot.
