@@ -17,6 +17,7 @@ use geo::MultiPolygon;
 pub use electorate::MAX_TOTAL_ELIGIBLE;
 pub use manifest::{file_name_problem, manifest_files, Files, MAX_FILE_NAME_CHARS};
 pub(crate) use number::parse_number;
+pub use number::round_text;
 
 /// A party on the ballot.
 #[derive(Debug, Clone, PartialEq)]
