@@ -70,14 +70,12 @@ fn acts(c: char) -> bool {
 /// ```
 pub fn plain(text: &str, max_chars: usize) -> String {
     let mut out = String::with_capacity(text.len().min(max_chars * 2));
-    let mut count = 0usize;
-    for c in text.chars() {
+    for (count, c) in text.chars().enumerate() {
         if count == max_chars {
             let total = text.chars().count();
             out.push_str(&format!("… (cut: {total} characters in all)"));
             return out;
         }
-        count += 1;
         if acts(c) {
             out.push_str(&format!("\\u{{{:x}}}", c as u32));
         } else {
