@@ -639,7 +639,11 @@ pub fn simulate(ds: &Dataset, s: &Scenario, runs: u32) -> Report {
     for b in 0..plan.block_count() {
         merged.add(plan.run_block(ds, b, &mut scratch));
     }
-    merged.report(&Labels::of(ds), s.seed, scenario_with_runs(ds, s, plan.runs))
+    merged.report(
+        &Labels::of(ds),
+        s.seed,
+        scenario_with_runs(ds, s, plan.runs),
+    )
 }
 
 /// The canonical scenario string of `s` with `runs` runs (what reproduces them).

@@ -7,6 +7,7 @@
 //! tipping: Uint32Array, majority: Uint32Array, seats: Uint32Array, shares:
 //! Float64Array}` (the arrays of [`BlockResult`], their buffers transferred).
 
+use super::wasm::Engine;
 use crate::analysis::simulate::{
     scenario_with_runs, BlockResult, Labels, Merged, Plan, Scratch, MAX_RUNS,
 };
@@ -15,7 +16,12 @@ use crate::model::scenario::Scenario;
 use js_sys::{Array, Float64Array, Object, Reflect, Uint32Array};
 use wasm_bindgen::prelude::*;
 use wasm_bindgen::JsCast;
-use super::wasm::Engine;
+
+/// Plain objects, not `Map`s, and numbers for 64-bit integers (as the engine's facade).
+fn to_js<T: serde::Serialize + ?Sized>(v: &T) -> JsValue {
+    v.serialize(&serde_wasm_bindgen::Serializer::json_compatible())
+        .unwrap_or(JsValue::NULL)
+}
 
 fn set(o: &Object, key: &str, v: &JsValue) -> Result<(), JsError> {
     Reflect::set(o, &JsValue::from_str(key), v)
@@ -220,7 +226,13 @@ impl SimResults {
 
     /// The summary of the runs merged so far, as a plain object (SPEC 4's shape).
     pub fn summary(&self) -> JsValue {
-        serde_wasm_bindgen::to_value(&self.report()).unwrap_or(JsValue::NULL)
+        to_js(&self.report())
+    }
+
+    /// The page's view of the runs merged so far (`output::won::SimView`).
+    pub fn view(&self) -> JsValue {
+        let v = crate::output::won::SimView::of(&self.report(), self.merged.wins(), self.runs);
+        to_js(&v)
     }
 
     /// The JSON of `stratamap simulate` for the runs merged so far (its `scenario` says
@@ -246,5 +258,14 @@ impl Engine {
     #[wasm_bindgen(js_name = simResults)]
     pub fn sim_results(&self, query: &str, runs: u32) -> SimResults {
         SimResults::for_dataset(self.inner.dataset(), query, runs)
+    }
+
+    /// Per group, what a change the size of its poll's margin of error does to the map
+    /// (`analysis::moe_effect`); null without a poll. Slower: call when sliders settle.
+    #[wasm_bindgen(js_name = moeEffects)]
+    pub fn moe_effects(&self) -> JsValue {
+        let e = &self.inner;
+        let v = crate::analysis::moe_effect::moe_effects(e.dataset(), e.shifts(), e.tally());
+        to_js(&v)
     }
 }
