@@ -13,6 +13,7 @@
 //! ```
 
 use crate::dataset::Dataset;
+use crate::error::{plain, shown, MESSAGE_CHARS, SHOWN_CHARS};
 use serde::Serialize;
 use std::fmt;
 
@@ -168,10 +169,12 @@ impl Scenario {
     pub fn parse(query: &str, ds: &Dataset) -> Parsed {
         let mut s = Scenario::default_for(ds);
         let mut messages = Vec::new();
+        // A key or value from the link never reaches a terminal or a page raw: control
+        // characters are escaped and long text is cut (crate::error::plain).
         let mut say = |key: &str, message: String| {
             messages.push(Message {
-                key: key.to_string(),
-                message,
+                key: plain(key, SHOWN_CHARS),
+                message: plain(&message, MESSAGE_CHARS),
             })
         };
         let q = query.trim_start_matches('?');
@@ -199,7 +202,10 @@ impl Scenario {
                             continue;
                         }
                         let Some((gid, pts)) = entry.split_once(':') else {
-                            say(&key, format!("{entry:?} is not of the form group:points"));
+                            say(
+                                &key,
+                                format!("{} is not of the form group:points", shown(entry)),
+                            );
                             continue;
                         };
                         let g = if gid == "all" {
@@ -208,7 +214,7 @@ impl Scenario {
                             match ds.group_index(gid) {
                                 Some(g) => Some(g),
                                 None => {
-                                    say(&key, format!("unknown group {gid:?}"));
+                                    say(&key, format!("unknown group {}", shown(gid)));
                                     continue;
                                 }
                             }
@@ -217,13 +223,17 @@ impl Scenario {
                             say(
                                 &key,
                                 format!(
-                                    "{gid}:{pts} is not allowed; expected points from -100 to 100"
+                                    "{} is not allowed; expected points from -100 to 100",
+                                    shown(entry)
                                 ),
                             );
                             continue;
                         };
                         if given.iter().any(|x| x == gid) {
-                            say(&key, format!("group {gid:?} given twice; the last value applies"));
+                            say(
+                                &key,
+                                format!("group {} given twice; the last value applies", shown(gid)),
+                            );
                         }
                         given.push(gid.to_string());
                         match g {
@@ -246,20 +256,29 @@ impl Scenario {
                         "this dataset has no poll; the scenario starts from the baseline".into(),
                     ),
                     "baseline" => s.start = Start::Baseline,
-                    other => say(&key, format!("{other:?} is not allowed; expected poll or baseline")),
+                    other => say(
+                        &key,
+                        format!("{} is not allowed; expected poll or baseline", shown(other)),
+                    ),
                 },
                 "runs" => match parse_integer(value).filter(|v| *v <= u64::from(MAX_RUNS)) {
                     Some(v) => s.runs = Some(v as u32),
                     None => say(
                         &key,
-                        format!("{value:?} is not allowed; expected a whole number from 0 to {MAX_RUNS}"),
+                        format!(
+                            "{} is not allowed; expected a whole number from 0 to {MAX_RUNS}",
+                            shown(value)
+                        ),
                     ),
                 },
                 "seed" => match parse_integer(value).filter(|v| *v <= MAX_SEED) {
                     Some(v) => s.seed = v,
                     None => say(
                         &key,
-                        format!("{value:?} is not allowed; expected a whole number from 0 to {MAX_SEED}"),
+                        format!(
+                            "{} is not allowed; expected a whole number from 0 to {MAX_SEED}",
+                            shown(value)
+                        ),
                     ),
                 },
                 "turnout_sd" | "margin_sd" | "district_sd" | "turnout_corr" => {
@@ -274,7 +293,8 @@ impl Scenario {
                         None => say(
                             &key,
                             format!(
-                                "{value:?} is not allowed; expected a number from 0 to {}",
+                                "{} is not allowed; expected a number from 0 to {}",
+                                shown(value),
                                 fmt_number(hi)
                             ),
                         ),
