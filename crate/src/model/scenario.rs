@@ -57,6 +57,12 @@ pub struct Scenario {
     pub margin_sd: f64,
     pub district_sd: f64,
     pub turnout_corr: f64,
+    /// `embed=1`: the page's compact layout for an article's iframe (page only; the
+    /// numbers do not depend on it).
+    pub embed: bool,
+    /// `show`: the groups whose sliders an embed shows, in dataset order; `None`: all
+    /// (page only).
+    pub show: Option<Vec<usize>>,
 }
 
 /// A problem with one key of a scenario string.
@@ -138,6 +144,8 @@ impl Scenario {
             margin_sd: DEFAULT_MARGIN_SD,
             district_sd: DEFAULT_DISTRICT_SD,
             turnout_corr: DEFAULT_TURNOUT_CORR,
+            embed: false,
+            show: None,
         }
     }
 
@@ -292,6 +300,23 @@ impl Scenario {
                         ),
                     }
                 }
+                "embed" => match value {
+                    "1" => s.embed = true,
+                    "0" => s.embed = false,
+                    other => say(&key, format!("{other:?} is not allowed; expected 1 (or 0)")),
+                },
+                "show" => {
+                    let mut groups = Vec::new();
+                    for gid in value.split(',').filter(|g| !g.is_empty()) {
+                        match ds.group_index(gid) {
+                            Some(g) if !groups.contains(&g) => groups.push(g),
+                            Some(_) => {}
+                            None => say(&key, format!("unknown group {gid:?}")),
+                        }
+                    }
+                    groups.sort_unstable();
+                    s.show = (!groups.is_empty()).then_some(groups);
+                }
                 _ => say(&key, "unknown key; ignored".into()),
             }
         }
@@ -370,6 +395,18 @@ impl Scenario {
                 parts.push(format!("{key}={}", fmt_number(v)));
             }
         }
+        if self.embed {
+            parts.push("embed=1".into());
+        }
+        if let Some(show) = &self.show {
+            let ids: Vec<&str> = show
+                .iter()
+                .filter_map(|&g| ds.groups.get(g).map(|x| x.id.as_str()))
+                .collect();
+            if !ids.is_empty() {
+                parts.push(format!("show={}", ids.join(",")));
+            }
+        }
         parts.join("&")
     }
 }
@@ -378,6 +415,25 @@ impl Scenario {
 mod tests {
     use super::*;
     use crate::testdata::two_groups;
+
+    #[test]
+    fn embed_and_show_round_trip() {
+        let ds = two_groups();
+        let p = Scenario::parse("show=old,young,old,nobody&embed=1&turnout=all:1", &ds);
+        assert_eq!(p.scenario.show, Some(vec![0, 1]));
+        assert!(p.scenario.embed);
+        assert_eq!(p.messages.len(), 1);
+        assert!(p.messages[0]
+            .to_string()
+            .contains("unknown group \"nobody\""));
+        assert_eq!(
+            p.scenario.to_query(&ds),
+            "turnout=all:1&embed=1&show=young,old"
+        );
+        let p = Scenario::parse("embed=yes&show=", &ds);
+        assert!(!p.scenario.embed && p.scenario.show.is_none());
+        assert_eq!(p.messages.len(), 1);
+    }
 
     #[test]
     fn decimals() {
