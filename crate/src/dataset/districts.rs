@@ -1,7 +1,7 @@
 //! The districts' GeoJSON (SPEC 1.2), read with the `geojson` crate.
 
-use super::{is_valid_id, District};
-use crate::error::{Collector, Location};
+use super::{is_valid_id, shown_value, District};
+use crate::error::{shown, Collector, Location};
 use geo::{Coord, LineString, MultiPolygon, Polygon};
 use geojson::{Feature, GeometryValue, PolygonType};
 use serde_json::Value;
@@ -11,7 +11,7 @@ const MAX_SEATS: u64 = 100_000;
 
 pub(crate) fn parse(file: &str, text: &str) -> Result<Vec<District>, Collector> {
     let mut c = Collector::new(file);
-    let root: Value = match serde_json::from_str(text) {
+    let root: Value = match serde_json::from_str(super::without_bom(text)) {
         Ok(v) => v,
         Err(e) => {
             c.push(
@@ -60,7 +60,10 @@ pub(crate) fn parse(file: &str, text: &str) -> Result<Vec<District>, Collector> 
                 c.push(
                     at.clone(),
                     Some("id"),
-                    format!("expected an id of 1 to 32 characters from a-z 0-9 _ -, found {v}"),
+                    format!(
+                        "expected an id of 1 to 32 characters from a-z 0-9 _ -, found {}",
+                        shown_value(v)
+                    ),
                 );
                 None
             }
@@ -74,7 +77,7 @@ pub(crate) fn parse(file: &str, text: &str) -> Result<Vec<District>, Collector> 
                 c.push(
                     at.clone(),
                     Some("id"),
-                    format!("id {id:?} is already used by feature {first}"),
+                    format!("id {} is already used by feature {first}", shown(id)),
                 );
             }
         }
@@ -98,7 +101,8 @@ pub(crate) fn parse(file: &str, text: &str) -> Result<Vec<District>, Collector> 
                         at.clone(),
                         Some("seats"),
                         format!(
-                            "expected a whole number of seats from 1 to {MAX_SEATS}, found {v}"
+                            "expected a whole number of seats from 1 to {MAX_SEATS}, found {}",
+                            shown_value(v)
                         ),
                     );
                     None
@@ -112,7 +116,7 @@ pub(crate) fn parse(file: &str, text: &str) -> Result<Vec<District>, Collector> 
                 c.push(
                     at.clone(),
                     Some("region"),
-                    format!("expected a string, found {v}"),
+                    format!("expected a string, found {}", shown_value(v)),
                 );
                 None
             }
