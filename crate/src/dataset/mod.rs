@@ -9,6 +9,7 @@ mod electorate;
 mod manifest;
 mod number;
 mod poll;
+mod seat_rule;
 mod table;
 
 use crate::error::{DatasetError, Location, Problem};
@@ -16,6 +17,7 @@ use geo::MultiPolygon;
 
 pub use manifest::{manifest_files, Files};
 pub(crate) use number::parse_number;
+pub use seat_rule::{SeatRule, MAX_THRESHOLD};
 
 /// A party on the ballot.
 #[derive(Debug, Clone, PartialEq)]
@@ -41,6 +43,11 @@ pub struct District {
     pub seats: u32,
     pub region: Option<String>,
     pub shape: MultiPolygon<f64>,
+    /// How its seats are shared: its own `seat_rule`, else the manifest's.
+    pub seat_rule: SeatRule,
+    /// Percent of its votes below which a party gets no seat under a proportional rule:
+    /// its own `threshold`, else the manifest's.
+    pub threshold: f64,
 }
 
 /// A named scenario shipped with the dataset.
@@ -93,6 +100,9 @@ pub struct Dataset {
     pub districts: Vec<District>,
     /// Seats needed for a majority.
     pub majority: u32,
+    /// The manifest's seat rule and threshold (each district may set its own).
+    pub seat_rule: SeatRule,
+    pub threshold: f64,
     pub presets: Vec<Preset>,
     pub cells: Cells,
     pub poll: Option<Poll>,
@@ -140,7 +150,11 @@ impl Dataset {
         let party_ids: Vec<&str> = m.parties.iter().map(|p| p.id.as_str()).collect();
         let group_ids: Vec<&str> = m.groups.iter().map(|g| g.id.as_str()).collect();
 
-        let districts = districts::parse(&m.files.districts, src.districts);
+        let districts = districts::parse(
+            &m.files.districts,
+            src.districts,
+            (m.seat_rule, m.threshold),
+        );
         let districts = match districts {
             Ok(d) => Some(d),
             Err(c) => {
@@ -207,6 +221,8 @@ impl Dataset {
             groups: m.groups,
             districts,
             majority,
+            seat_rule: m.seat_rule,
+            threshold: m.threshold,
             presets: m.presets,
             cells,
             poll,
@@ -243,6 +259,12 @@ impl Dataset {
     /// Total seats over all districts.
     pub fn total_seats(&self) -> u64 {
         self.districts.iter().map(|d| u64::from(d.seats)).sum()
+    }
+    /// Whether any district shares its seats by a proportional rule (then the tally
+    /// keeps every district's seat split, the CSV has `seats_<party>` columns, and
+    /// there is no tipping point).
+    pub fn has_proportional(&self) -> bool {
+        self.districts.iter().any(|d| d.seat_rule.is_proportional())
     }
     pub fn party_index(&self, id: &str) -> Option<usize> {
         self.parties.iter().position(|p| p.id == id)
