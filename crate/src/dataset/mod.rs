@@ -17,6 +17,7 @@ use geo::MultiPolygon;
 
 pub use manifest::{manifest_files, Files};
 pub(crate) use number::parse_number;
+pub use number::round_text;
 pub use seat_rule::{SeatRule, MAX_THRESHOLD};
 
 /// A party on the ballot.

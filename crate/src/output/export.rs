@@ -80,5 +80,15 @@ mod tests {
         assert!(lines[1].ends_with(",540,630,130,0,1,0"), "{}", lines[1]);
         assert_eq!(lines[2], "y,Ypo,5,a,2.8,50,580,545,125,3,2,0");
         assert!(lines[3].ends_with(",0,1,0"), "{}", lines[3]);
+        // Its CSVW metadata describes the seat columns.
+        let s = crate::model::scenario::Scenario::default_for(&ds);
+        let meta: serde_json::Value = serde_json::from_str(
+            &crate::output::publish::csvw_metadata(&ds, &s, lines[0], "t.csv"),
+        )
+        .unwrap();
+        let cols = meta["tableSchema"]["columns"].as_array().unwrap();
+        assert_eq!(cols[9]["name"], "seats_a");
+        assert_eq!(cols[9]["datatype"], "integer");
+        assert_eq!(cols[9]["dc:description"], "Seats won by Alder");
     }
 }
