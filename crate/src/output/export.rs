@@ -82,9 +82,9 @@ mod tests {
         assert!(lines[3].ends_with(",0,1,0"), "{}", lines[3]);
         // Its CSVW metadata describes the seat columns.
         let s = crate::model::scenario::Scenario::default_for(&ds);
-        let meta: serde_json::Value = serde_json::from_str(
-            &crate::output::publish::csvw_metadata(&ds, &s, lines[0], "t.csv"),
-        )
+        let meta: serde_json::Value = serde_json::from_str(&crate::output::publish::csvw_metadata(
+            &ds, &s, lines[0], "t.csv",
+        ))
         .unwrap();
         let cols = meta["tableSchema"]["columns"].as_array().unwrap();
         assert_eq!(cols[9]["name"], "seats_a");
