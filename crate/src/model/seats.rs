@@ -63,7 +63,7 @@ pub fn allocate(
 ) -> Allocation {
     out.iter_mut().for_each(|s| *s = 0);
     let cast: f64 = votes.iter().sum();
-    if seats == 0 || !(cast > 0.0) || out.len() < votes.len() {
+    if seats == 0 || !cast.is_finite() || cast <= 0.0 || out.len() < votes.len() {
         return Allocation::default();
     }
     let tol = TIE_TOLERANCE * cast;
