@@ -203,53 +203,7 @@ mod cli {
         if runs == 0 {
             return Err("runs=0 asks for no simulation; give runs from 1 to 100000".into());
         }
-        let sim = stratamap::analysis::simulate::simulate(ds, s, runs);
-        let parties: Vec<serde_json::Value> = ds
-            .parties
-            .iter()
-            .zip(&sim.parties)
-            .map(|(p, r)| {
-                serde_json::json!({
-                    "id": p.id,
-                    "majority_probability": r.majority_probability,
-                    "seats": {"mean": r.seats.mean, "p05": r.seats.p05, "p50": r.seats.p50, "p95": r.seats.p95,
-                              "histogram": r.seats.histogram},
-                    "share": {"p05": r.share_p05, "p50": r.share_p50, "p95": r.share_p95},
-                })
-            })
-            .collect();
-        let districts: Vec<serde_json::Value> = ds
-            .districts
-            .iter()
-            .zip(&sim.districts)
-            .map(|(d, r)| {
-                let win: serde_json::Map<String, serde_json::Value> = ds
-                    .parties
-                    .iter()
-                    .zip(&r.win_probability)
-                    .map(|(p, w)| (p.id.clone(), serde_json::json!(w)))
-                    .collect();
-                serde_json::json!({
-                    "id": d.id,
-                    "win_probability": win,
-                    "tie_probability": r.tie_probability,
-                    "tipping_point_probability": r.tipping_point_probability,
-                })
-            })
-            .collect();
-        let out = serde_json::json!({
-            "runs": sim.runs,
-            "seed": sim.seed,
-            "scenario": e.scenario_query(),
-            "no_majority_probability": sim.no_majority_probability,
-            "parties": parties,
-            "districts": districts,
-            "source": ds.source,
-            "caution": stratamap::CAUTION,
-        });
-        serde_json::to_string_pretty(&out)
-            .map(|t| t + "\n")
-            .map_err(|err| format!("cannot write JSON: {err}"))
+        Ok(stratamap::analysis::simulate::simulate(ds, s, runs).to_json())
     }
 
     pub fn main() -> ExitCode {

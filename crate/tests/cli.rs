@@ -201,11 +201,27 @@ fn simulate_prints_json_reproducibly() {
     assert_eq!(v["runs"], 300);
     assert_eq!(v["seed"], 5);
     assert_eq!(v["parties"][0]["id"], "a");
-    let p: f64 = ["a", "b", "c"]
+    assert_eq!(v["block_size"], 250);
+    assert_eq!(v["scenario"], "runs=300&seed=5&district_sd=2");
+    let won = &v["districts"][2]["runs_won"];
+    let n: u64 = ["a", "b", "c", "tie"]
         .iter()
-        .map(|k| v["districts"][2]["win_probability"][k].as_f64().unwrap())
+        .map(|k| won[k].as_u64().unwrap())
         .sum();
-    assert!((p + v["districts"][2]["tie_probability"].as_f64().unwrap() - 1.0).abs() < 1e-12);
+    assert_eq!(n, 300);
+    let majorities: u64 = (0..3)
+        .map(|k| v["parties"][k]["majority_runs"].as_u64().unwrap())
+        .sum();
+    assert_eq!(majorities + v["no_majority_runs"].as_u64().unwrap(), 300);
+    let h = &v["parties"][0]["seats"]["histogram"];
+    let counted: u64 = h["counts"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|c| c.as_u64().unwrap())
+        .sum();
+    assert_eq!(counted, 300);
+    assert_eq!(v["source"], "Hand-made test data");
     assert!(v["caution"].as_str().unwrap().contains("not a forecast"));
     let o = run(&["simulate", s(&d), "--scenario", "runs=0"]);
     assert_eq!(o.status.code(), Some(1));
