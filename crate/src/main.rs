@@ -87,7 +87,12 @@ mod cli {
     }
 
     fn load(path: &std::path::Path) -> Result<Dataset, String> {
-        load_path(path).map_err(|e| format!("{} is not a valid dataset:\n{e}", path.display()))
+        load_path(path).map_err(|e| {
+            format!(
+                "{} is not a valid dataset:\n{e}",
+                stratamap::error::plain(&path.display().to_string(), 200)
+            )
+        })
     }
 
     fn engine(path: &std::path::Path, query: &str) -> Result<Engine, String> {

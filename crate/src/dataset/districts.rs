@@ -1,8 +1,8 @@
 //! The districts' GeoJSON (SPEC 1.2), read with the `geojson` crate.
 
 use super::seat_rule::{parse_rule, parse_threshold};
-use super::{is_valid_id, District, SeatRule};
-use crate::error::{Collector, Location};
+use super::{is_valid_id, shown_value, District, SeatRule};
+use crate::error::{shown, Collector, Location};
 use geo::{Coord, LineString, MultiPolygon, Polygon};
 use geojson::{Feature, GeometryValue, PolygonType};
 use serde_json::Value;
@@ -18,7 +18,7 @@ pub(crate) fn parse(
     defaults: (SeatRule, f64),
 ) -> Result<Vec<District>, Collector> {
     let mut c = Collector::new(file);
-    let root: Value = match serde_json::from_str(text) {
+    let root: Value = match serde_json::from_str(super::without_bom(text)) {
         Ok(v) => v,
         Err(e) => {
             c.push(
@@ -67,7 +67,10 @@ pub(crate) fn parse(
                 c.push(
                     at.clone(),
                     Some("id"),
-                    format!("expected an id of 1 to 32 characters from a-z 0-9 _ -, found {v}"),
+                    format!(
+                        "expected an id of 1 to 32 characters from a-z 0-9 _ -, found {}",
+                        shown_value(v)
+                    ),
                 );
                 None
             }
@@ -81,7 +84,7 @@ pub(crate) fn parse(
                 c.push(
                     at.clone(),
                     Some("id"),
-                    format!("id {id:?} is already used by feature {first}"),
+                    format!("id {} is already used by feature {first}", shown(id)),
                 );
             }
         }
@@ -105,7 +108,8 @@ pub(crate) fn parse(
                         at.clone(),
                         Some("seats"),
                         format!(
-                            "expected a whole number of seats from 1 to {MAX_SEATS}, found {v}"
+                            "expected a whole number of seats from 1 to {MAX_SEATS}, found {}",
+                            shown_value(v)
                         ),
                     );
                     None
@@ -119,7 +123,7 @@ pub(crate) fn parse(
                 c.push(
                     at.clone(),
                     Some("region"),
-                    format!("expected a string, found {v}"),
+                    format!("expected a string, found {}", shown_value(v)),
                 );
                 None
             }

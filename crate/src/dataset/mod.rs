@@ -12,10 +12,11 @@ mod poll;
 mod seat_rule;
 mod table;
 
-use crate::error::{DatasetError, Location, Problem};
+use crate::error::{plain, shown, DatasetError, Location, Problem, SHOWN_CHARS};
 use geo::MultiPolygon;
 
-pub use manifest::{manifest_files, Files};
+pub use electorate::MAX_TOTAL_ELIGIBLE;
+pub use manifest::{file_name_problem, manifest_files, Files, MAX_FILE_NAME_CHARS};
 pub(crate) use number::parse_number;
 pub use number::round_text;
 pub use seat_rule::{SeatRule, MAX_THRESHOLD};
@@ -113,6 +114,25 @@ pub struct Dataset {
 
 /// Name of the manifest in messages.
 pub const MANIFEST: &str = "dataset.json";
+
+/// A JSON value from the input, quoted for a message: a string as [`shown`], anything
+/// else in its JSON form, cut like any echoed value.
+pub(crate) fn shown_value(v: &serde_json::Value) -> String {
+    match v {
+        serde_json::Value::String(s) => shown(s),
+        other => plain(&other.to_string(), SHOWN_CHARS),
+    }
+}
+
+/// Largest file a dataset may have, in bytes: the command line checks it before reading,
+/// the page before and while it fetches.
+pub const MAX_FILE_BYTES: u64 = 100 * 1024 * 1024;
+
+/// The text after a UTF-8 byte-order mark, if the text starts with one (editors on some
+/// systems write it; RFC 8259 lets a JSON reader ignore it, and CSV readers commonly do).
+pub(crate) fn without_bom(text: &str) -> &str {
+    text.strip_prefix('\u{feff}').unwrap_or(text)
+}
 
 /// Whether `s` is a valid id: `[a-z0-9_-]{1,32}`.
 pub fn is_valid_id(s: &str) -> bool {

@@ -86,7 +86,11 @@ impl SeatRule {
 pub(crate) fn parse_rule(v: &Value) -> Result<SeatRule, String> {
     match v.as_str().and_then(SeatRule::from_id) {
         Some(r) => Ok(r),
-        None => Err(format!("expected {}, found {v}", SeatRule::expected())),
+        None => Err(format!(
+            "expected {}, found {}",
+            SeatRule::expected(),
+            super::shown_value(v)
+        )),
     }
 }
 
@@ -95,7 +99,8 @@ pub(crate) fn parse_threshold(v: &Value) -> Result<f64, String> {
     match v.as_f64() {
         Some(t) if t.is_finite() && (0.0..=MAX_THRESHOLD).contains(&t) => Ok(t),
         _ => Err(format!(
-            "expected a percentage of the district's votes from 0 to {MAX_THRESHOLD}, found {v}"
+            "expected a percentage of the district's votes from 0 to {MAX_THRESHOLD}, found {}",
+            super::shown_value(v)
         )),
     }
 }
