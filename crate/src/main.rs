@@ -205,10 +205,23 @@ mod cli {
         let ds = e.dataset();
         let s = e.scenario();
         let runs = s.runs.unwrap_or(DEFAULT_RUNS);
-        if runs == 0 {
-            return Err("runs=0 asks for no simulation; give runs from 1 to 100000".into());
+        let json = stratamap::analysis::simulate::simulate(ds, s, runs).to_json();
+        if runs > 0 {
+            return Ok(json);
         }
-        Ok(stratamap::analysis::simulate::simulate(ds, s, runs).to_json())
+        // runs=0 asks for no simulation: the same keys, every count 0, and no seat or
+        // share statistics (null), since there are no runs to take them from.
+        let mut v: serde_json::Value =
+            serde_json::from_str(&json).map_err(|err| format!("cannot write JSON: {err}"))?;
+        if let Some(parties) = v.get_mut("parties").and_then(|p| p.as_array_mut()) {
+            for p in parties {
+                p["seats"] = serde_json::Value::Null;
+                p["share"] = serde_json::Value::Null;
+            }
+        }
+        serde_json::to_string_pretty(&v)
+            .map(|t| t + "\n")
+            .map_err(|err| format!("cannot write JSON: {err}"))
     }
 
     pub fn main() -> ExitCode {

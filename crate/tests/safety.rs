@@ -306,3 +306,35 @@ fn byte_order_marks_are_read_past() {
     assert_eq!(bom.status.code(), Some(0), "{}", stderr(&bom));
     assert_eq!(bom.stdout, plain.stdout);
 }
+
+#[test]
+fn runs_0_means_no_simulation() {
+    let (_parent, data) = layout("runs0");
+    let o = run(&["simulate", s(&data), "--scenario", "runs=0"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["runs"], 0);
+    assert_eq!(v["scenario"], "runs=0");
+    assert_eq!(v["no_majority_runs"], 0);
+    for p in v["parties"].as_array().unwrap() {
+        assert_eq!(p["majority_runs"], 0);
+        assert!(p["seats"].is_null() && p["share"].is_null(), "{p}");
+    }
+    let districts = v["districts"].as_array().unwrap();
+    assert_eq!(districts.len(), 3);
+    for d in districts {
+        assert_eq!(d["tipping_runs"], 0);
+        assert!(
+            d["runs_won"].as_object().unwrap().values().all(|n| n == 0),
+            "{d}"
+        );
+    }
+    assert_eq!(v["caution"], stratamap::CAUTION);
+    // The tally takes it too (its own output has no simulation in it).
+    let o = run(&["tally", s(&data), "--scenario", "runs=0"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    // One more than the limit is still refused.
+    let o = run(&["simulate", s(&data), "--scenario", "runs=100001"]);
+    assert_eq!(o.status.code(), Some(1));
+    assert!(stderr(&o).contains("expected a whole number from 0 to 100000"));
+}
