@@ -804,7 +804,11 @@ pub fn rake(inputs: &Inputs) -> Result<Raked, DatasetError> {
     let mut order: Vec<usize> = (0..margins.districts.len()).collect();
     let mut regions: Vec<String> = vec![String::new(); margins.districts.len()];
     match inputs.districts {
-        Some(input) => match crate::dataset::parse_districts(input.name, input.text) {
+        Some(input) => match crate::dataset::parse_districts(
+            input.name,
+            input.text,
+            (crate::dataset::SeatRule::Winner, 0.0),
+        ) {
             Ok(list) => {
                 let mut dc = Collector::new(input.name);
                 order = map_order(&list, &margins, inputs.margins.name, &mut dc);
