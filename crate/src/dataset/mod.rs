@@ -14,6 +14,7 @@ mod table;
 use crate::error::{DatasetError, Location, Problem};
 use geo::MultiPolygon;
 
+pub use districts::{MAX_DISTRICTS, MAX_GEOJSON_BYTES};
 pub use manifest::{manifest_files, Files};
 pub(crate) use number::parse_number;
 
