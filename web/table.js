@@ -9,12 +9,17 @@ export class ResultsTable {
    * The table is refreshed only while it is on screen (or about to be): a big dataset's
    * thousands of rows cost nothing while the sliders move and the table is out of view.
    * table.dataset.fresh says whether the rows show the current scenario.
+   *
+   * The rows are filled once as soon as a dataset is in (off screen too): an empty table
+   * that fills the moment it scrolls into view widens its columns under the pointer, so
+   * a click that began on one header button could end on another and sort nothing.
    */
   constructor(table) {
     this.table = table;
     this.sort = null; // {col, dir: 1|-1}
     this.rows = [];
     this.dirty = false;
+    this.filled = false;
     this.visible = false;
     this.table.dataset.fresh = 'false';
     const observer = new IntersectionObserver(
@@ -31,7 +36,7 @@ export class ResultsTable {
   invalidate() {
     this.dirty = true;
     this.table.dataset.fresh = 'false';
-    if (this.visible) this.refresh();
+    if (this.visible || !this.filled) this.refresh();
   }
 
   setDataset(engine, info) {
@@ -39,6 +44,7 @@ export class ResultsTable {
     this.info = info;
     this.sort = null;
     this.dirty = true;
+    this.filled = false;
     this.table.dataset.fresh = 'false';
     const hasRegion = info.districts.some((d) => d.region);
     this.columns = [
@@ -77,6 +83,7 @@ export class ResultsTable {
     const { engine, info } = this;
     if (!engine) return;
     this.dirty = false;
+    this.filled = true;
     const parties = info.parties;
     this.rows.forEach((row, i) => {
       const d = engine.district(i);

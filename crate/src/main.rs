@@ -27,34 +27,62 @@ mod cli {
         command: Command,
     }
 
+    /// DATASET, in every command: the manifest's path (dataset.json), or a folder that
+    /// holds dataset.json. The files it names are read relative to it.
+    const DATASET_HELP: &str =
+        "The dataset: its manifest (dataset.json) or a folder holding dataset.json";
+    /// The scenario, in every command that takes one.
+    const SCENARIO_HELP: &str = "A scenario string, as in a share link: e.g. \"turnout=all:2&margin=young:-3\" (turnout points up, lead points toward the first axis party); empty: no shifts";
+
     #[derive(Subcommand)]
     enum Command {
         /// Validate a dataset and print a summary of it.
         Check {
-            /// The manifest's path, or a folder holding dataset.json.
+            #[arg(help = DATASET_HELP)]
             dataset: PathBuf,
         },
-        /// Print one CSV row per district for a scenario.
+        /// Print one CSV row per district for a scenario (the caution and source go to
+        /// standard error; --metadata writes them beside the CSV).
         Tally {
+            #[arg(help = DATASET_HELP)]
             dataset: PathBuf,
-            /// A scenario string, e.g. "turnout=all:2&margin=young:-3".
-            #[arg(long, default_value = "")]
+            #[arg(long, default_value = "", help = SCENARIO_HELP)]
             scenario: String,
+            /// Also write W3C CSV on the Web metadata for the CSV to this file: column
+            /// titles and types, the dataset's title and source, the scenario and the caution.
+            #[arg(long, value_name = "FILE")]
+            metadata: Option<PathBuf>,
+            /// Instead of the districts, print what it would take for the majority to
+            /// change hands: per group (and all groups), the turnout change and the lead
+            /// change of that group alone, as CSV.
+            #[arg(long)]
+            what_it_takes: bool,
         },
         /// Run the Monte Carlo simulation of a scenario; JSON to standard output.
         Simulate {
+            #[arg(help = DATASET_HELP)]
             dataset: PathBuf,
-            #[arg(long, default_value = "")]
+            #[arg(long, default_value = "", help = SCENARIO_HELP)]
             scenario: String,
         },
-        /// Write the map of a scenario as a standalone SVG.
+        /// Write the map of a scenario as a standalone SVG: title, legend, seats against
+        /// the majority, the scenario in words, source and caution.
         Render {
+            #[arg(help = DATASET_HELP)]
             dataset: PathBuf,
-            #[arg(long, default_value = "")]
+            #[arg(long, default_value = "", help = SCENARIO_HELP)]
             scenario: String,
             /// Output file (default: standard output).
             #[arg(short = 'o', long = "output")]
             output: Option<PathBuf>,
+        },
+        /// Print a scenario as JSON: every value, the canonical string, the scenario in
+        /// words, the dataset's title and source, and the caution.
+        Scenario {
+            #[arg(help = DATASET_HELP)]
+            dataset: PathBuf,
+            #[arg(long, default_value = "", help = SCENARIO_HELP)]
+            scenario: String,
         },
     }
 
@@ -138,6 +166,26 @@ mod cli {
         }
     }
 
+    /// The CSV a metadata file describes, by the CSVW naming convention: `X.csv` for
+    /// `X.csv-metadata.json` (or `X-metadata.json`), else the file's stem with `.csv`.
+    fn csv_name_for(p: &std::path::Path) -> String {
+        let name = p
+            .file_name()
+            .map(|n| n.to_string_lossy().into_owned())
+            .unwrap_or_default();
+        if let Some(stem) = name.strip_suffix("-metadata.json") {
+            if stem.ends_with(".csv") {
+                return stem.to_string();
+            }
+            return format!("{stem}.csv");
+        }
+        let stem = p
+            .file_stem()
+            .map(|n| n.to_string_lossy().into_owned())
+            .unwrap_or_else(|| "tally".into());
+        format!("{stem}.csv")
+    }
+
     /// Runs when the scenario does not say.
     const DEFAULT_RUNS: u32 = 2000;
 
@@ -148,53 +196,7 @@ mod cli {
         if runs == 0 {
             return Err("runs=0 asks for no simulation; give runs from 1 to 100000".into());
         }
-        let sim = stratamap::analysis::simulate::simulate(ds, s, runs);
-        let parties: Vec<serde_json::Value> = ds
-            .parties
-            .iter()
-            .zip(&sim.parties)
-            .map(|(p, r)| {
-                serde_json::json!({
-                    "id": p.id,
-                    "majority_probability": r.majority_probability,
-                    "seats": {"mean": r.seats.mean, "p05": r.seats.p05, "p50": r.seats.p50, "p95": r.seats.p95,
-                              "histogram": r.seats.histogram},
-                    "share": {"p05": r.share_p05, "p50": r.share_p50, "p95": r.share_p95},
-                })
-            })
-            .collect();
-        let districts: Vec<serde_json::Value> = ds
-            .districts
-            .iter()
-            .zip(&sim.districts)
-            .map(|(d, r)| {
-                let win: serde_json::Map<String, serde_json::Value> = ds
-                    .parties
-                    .iter()
-                    .zip(&r.win_probability)
-                    .map(|(p, w)| (p.id.clone(), serde_json::json!(w)))
-                    .collect();
-                serde_json::json!({
-                    "id": d.id,
-                    "win_probability": win,
-                    "tie_probability": r.tie_probability,
-                    "tipping_point_probability": r.tipping_point_probability,
-                })
-            })
-            .collect();
-        let out = serde_json::json!({
-            "runs": sim.runs,
-            "seed": sim.seed,
-            "scenario": e.scenario_query(),
-            "no_majority_probability": sim.no_majority_probability,
-            "parties": parties,
-            "districts": districts,
-            "source": ds.source,
-            "caution": stratamap::CAUTION,
-        });
-        serde_json::to_string_pretty(&out)
-            .map(|t| t + "\n")
-            .map_err(|err| format!("cannot write JSON: {err}"))
+        Ok(stratamap::analysis::simulate::simulate(ds, s, runs).to_json())
     }
 
     pub fn main() -> ExitCode {
@@ -211,10 +213,32 @@ mod cli {
         };
         let result = match cli.command {
             Command::Check { dataset } => check(&dataset),
-            Command::Tally { dataset, scenario } => engine(&dataset, &scenario).map(|e| {
+            Command::Tally {
+                dataset,
+                scenario,
+                metadata,
+                what_it_takes,
+            } => engine(&dataset, &scenario).and_then(|e| {
                 notes(&e);
-                e.tally_csv()
+                if let Some(p) = &metadata {
+                    if what_it_takes {
+                        return Err(
+                            "--metadata describes the districts' CSV; leave out --what-it-takes"
+                                .into(),
+                        );
+                    }
+                    std::fs::write(p, e.tally_csvw(&csv_name_for(p)))
+                        .map_err(|err| format!("cannot write {}: {err}", p.display()))?;
+                }
+                Ok(if what_it_takes {
+                    e.what_it_takes_csv()
+                } else {
+                    e.tally_csv()
+                })
             }),
+            Command::Scenario { dataset, scenario } => {
+                engine(&dataset, &scenario).map(|e| e.scenario_json(None))
+            }
             Command::Simulate { dataset, scenario } => {
                 engine(&dataset, &scenario).and_then(|e| simulate(&e))
             }

@@ -113,7 +113,7 @@ fn render_writes_an_svg_with_caution_and_source() {
     assert!(svg.starts_with("<svg"));
     assert!(svg.contains("A scenario, not a forecast"));
     assert!(svg.contains("Hand-made test data"));
-    assert!(svg.contains("margin=all:1"));
+    assert!(svg.contains("Every group: Alder's lead over Birch 1 point higher"));
 }
 
 #[test]
@@ -201,12 +201,151 @@ fn simulate_prints_json_reproducibly() {
     assert_eq!(v["runs"], 300);
     assert_eq!(v["seed"], 5);
     assert_eq!(v["parties"][0]["id"], "a");
-    let p: f64 = ["a", "b", "c"]
+    assert_eq!(v["block_size"], 250);
+    assert_eq!(v["scenario"], "runs=300&seed=5&district_sd=2");
+    let won = &v["districts"][2]["runs_won"];
+    let n: u64 = ["a", "b", "c", "tie"]
         .iter()
-        .map(|k| v["districts"][2]["win_probability"][k].as_f64().unwrap())
+        .map(|k| won[k].as_u64().unwrap())
         .sum();
-    assert!((p + v["districts"][2]["tie_probability"].as_f64().unwrap() - 1.0).abs() < 1e-12);
+    assert_eq!(n, 300);
+    let majorities: u64 = (0..3)
+        .map(|k| v["parties"][k]["majority_runs"].as_u64().unwrap())
+        .sum();
+    assert_eq!(majorities + v["no_majority_runs"].as_u64().unwrap(), 300);
+    let h = &v["parties"][0]["seats"]["histogram"];
+    let counted: u64 = h["counts"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|c| c.as_u64().unwrap())
+        .sum();
+    assert_eq!(counted, 300);
+    assert_eq!(v["source"], "Hand-made test data");
     assert!(v["caution"].as_str().unwrap().contains("not a forecast"));
     let o = run(&["simulate", s(&d), "--scenario", "runs=0"]);
     assert_eq!(o.status.code(), Some(1));
+}
+
+#[test]
+fn what_it_takes_as_csv_matches_the_hand_worked_values() {
+    // Worked by hand in the core's analysis/reach.rs: starting from the baseline, young
+    // voters' lead moving 18 points toward Alder (or their turnout rising 30 points)
+    // overturns Birch's 90-vote lead in Xe, giving Alder 3 of 4 seats.
+    let d = write_dataset("reach", |_, t| t);
+    let o = run(&[
+        "tally",
+        s(&d),
+        "--scenario",
+        "start=baseline",
+        "--what-it-takes",
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let out = String::from_utf8(o.stdout).unwrap();
+    let mut r = csv::Reader::from_reader(out.as_bytes());
+    assert_eq!(
+        r.headers().unwrap().iter().collect::<Vec<_>>(),
+        [
+            "group",
+            "party",
+            "outcome",
+            "turnout_change",
+            "turnout_value",
+            "margin_change",
+            "margin_value",
+            "sentence"
+        ]
+    );
+    let rows: Vec<csv::StringRecord> = r.records().map(|x| x.unwrap()).collect();
+    let row = |g: &str, p: &str| {
+        rows.iter()
+            .find(|x| &x[0] == g && &x[1] == p)
+            .unwrap_or_else(|| panic!("{g} {p}: {out}"))
+            .clone()
+    };
+    let young_a = row("young", "a");
+    assert_eq!(&young_a[2], "wins_majority");
+    assert_eq!((&young_a[3], &young_a[5]), ("30", "18"));
+    let old_b = row("old", "b");
+    assert_eq!((&old_b[3], &old_b[5]), ("", "-7.78"));
+    assert!(old_b[7].contains("no turnout change in this group alone"));
+    // Every group at once: the seats–votes curve's swing to majority, 90/13 points.
+    let all_a = row("all", "a");
+    let v: f64 = all_a[5].parse().unwrap();
+    assert!((v - 90.0 / 13.0).abs() <= 0.01, "{v}");
+}
+
+#[test]
+fn metadata_describes_the_csv_with_caution_and_scenario() {
+    let d = write_dataset("csvw", |_, t| t);
+    let meta = d.join("t.csv-metadata.json");
+    let o = run(&[
+        "tally",
+        s(&d),
+        "--scenario",
+        "turnout=young:4",
+        "--metadata",
+        s(&meta),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let csv = String::from_utf8(o.stdout).unwrap();
+    let m: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(&meta).unwrap()).unwrap();
+    // W3C "Metadata Vocabulary for Tabular Data" (2015): a table description names its
+    // CSV in `url` and lists its columns, in order, in `tableSchema.columns`.
+    assert_eq!(m["@context"][0], "http://www.w3.org/ns/csvw");
+    assert_eq!(m["url"], "t.csv");
+    let names: Vec<&str> = m["tableSchema"]["columns"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|c| c["name"].as_str().unwrap())
+        .collect();
+    assert_eq!(names.join(","), csv.lines().next().unwrap());
+    assert_eq!(m["rdfs:comment"], stratamap::CAUTION);
+    assert_eq!(m["dc:source"], "Hand-made test data");
+    assert_eq!(m["prov:wasGeneratedBy"]["rdf:value"], "turnout=young:4");
+    assert!(m["dc:description"]
+        .as_str()
+        .unwrap()
+        .contains("Young: turnout 4 points higher."));
+}
+
+#[test]
+fn scenario_prints_json_and_render_writes_words() {
+    let d = write_dataset("words", |_, t| t);
+    let o = run(&["scenario", s(&d), "--scenario", "margin=old:-3"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(v["margin"]["groups"]["old"], -3.0);
+    assert_eq!(v["title"], "Tiny test land");
+    let svg = d.join("m.svg");
+    let o = run(&[
+        "render",
+        s(&d),
+        "--scenario",
+        "margin=old:-3",
+        "-o",
+        s(&svg),
+    ]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let text = std::fs::read_to_string(&svg).unwrap();
+    assert!(
+        text.contains("Old: Alder's lead over Birch 3 points lower"),
+        "{text}"
+    );
+    assert!(
+        !text.contains("margin=old"),
+        "the raw string is not the words"
+    );
+    assert!(text.contains("a majority is 3"));
+}
+
+#[test]
+fn help_explains_dataset_for_every_command() {
+    for cmd in ["check", "tally", "simulate", "render", "scenario"] {
+        let o = run(&[cmd, "--help"]);
+        let out = String::from_utf8(o.stdout).unwrap();
+        assert!(out.contains("folder holding dataset.json"), "{cmd}: {out}");
+    }
 }

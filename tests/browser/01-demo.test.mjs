@@ -4,7 +4,7 @@ import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import path from 'node:path';
 import {
-  DEMO, openPage, readPage, cliTally, featureCount, readJson,
+  DEMO, openPage, readPage, showTable, cliTally, featureCount, readJson,
   assertMatchesTally, fmt1,
   useSite,
 } from './helpers.mjs';
@@ -80,6 +80,16 @@ test('the results table sorts by a column with the mouse and with Enter', async 
   const { page, context } = await openPage(env.browser, env.site, '');
   const tally = cliTally(demoManifest, '');
   const header = page.locator('#results-table thead th[data-key="margin"]');
+  // The rows are filled before the table is first seen, so its header buttons stay where
+  // they are when it scrolls into view (a click that starts on one button ends on it).
+  const at = () => header.locator('button').evaluate((b) => {
+    const t = b.closest('table').getBoundingClientRect();
+    const r = b.getBoundingClientRect();
+    return { x: r.x - t.x, width: r.width };
+  });
+  const offScreen = await at();
+  await showTable(page);
+  assert.deepEqual(await at(), offScreen, 'the header does not move when the table comes on screen');
   await header.locator('button').click();
   assert.equal(await header.getAttribute('aria-sort'), 'descending');
   let order = await page.$$eval('#results-table tbody tr', (trs) => trs.map((tr) => tr.dataset.district));

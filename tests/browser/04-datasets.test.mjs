@@ -8,7 +8,7 @@ import assert from 'node:assert/strict';
 import fs from 'node:fs';
 import path from 'node:path';
 import {
-  FIXTURES, openPage, readPage, waitSettled, cliTally, featureCount,
+  FIXTURES, openPage, readPage, showTable, waitSettled, cliTally, featureCount,
   readJson, assertMatchesTally, scenarioOf,
   useSite,
 } from './helpers.mjs';
@@ -65,7 +65,9 @@ test('names that look like markup are shown as text and run nothing', async () =
   await page.hover('.seat-row .seat-name');
   await page.getByRole('button', { name: manifest.presets[0].name, exact: true }).click();
   await waitSettled(page);
+  await showTable(page);
   await page.click('#results-table thead th[data-key="name"] button');
+  assert.equal(await page.getAttribute('#results-table thead th[data-key="name"]', 'aria-sort'), 'ascending');
 
   const state = await readPage(page);
   assert.equal(state.pwned, undefined, 'no script from the data ran');

@@ -5,7 +5,7 @@ import { test } from 'node:test';
 import assert from 'node:assert/strict';
 import fs from 'node:fs';
 import path from 'node:path';
-import { OUTPUT, openPage, readJson, DEMO, useSite } from './helpers.mjs';
+import { OUTPUT, openPage, showTable, readJson, DEMO, useSite } from './helpers.mjs';
 
 
 fs.mkdirSync(OUTPUT, { recursive: true });
@@ -16,9 +16,8 @@ const scenario = `?turnout=${g}:-6&margin=all:1.5`;
 
 test('desktop 1280x900', async () => {
   const { page, context, problems } = await openPage(env.browser, env.site, scenario, { viewport: { width: 1280, height: 900 } });
-  // Bring the results table in (it fills while on screen), then back to the top.
-  await page.locator('#results-table').scrollIntoViewIfNeeded();
-  await page.waitForSelector('#results-table[data-fresh="true"]', { state: 'attached' });
+  // Bring the results table in (it refreshes while on screen), then back to the top.
+  await showTable(page);
   await page.evaluate(() => window.scrollTo(0, 0));
   await page.focus('#map path[data-i="2"]');
   await page.screenshot({ path: path.join(OUTPUT, 'desktop.png') });
@@ -36,8 +35,7 @@ test('desktop 1280x900', async () => {
 
 test('phone 375x812', async () => {
   const { page, context, problems } = await openPage(env.browser, env.site, scenario, { viewport: { width: 375, height: 812 } });
-  await page.locator('#results-table').scrollIntoViewIfNeeded();
-  await page.waitForSelector('#results-table[data-fresh="true"]', { state: 'attached' });
+  await showTable(page);
   await page.evaluate(() => window.scrollTo(0, 0));
   await page.screenshot({ path: path.join(OUTPUT, 'phone.png') });
   await page.screenshot({ path: path.join(OUTPUT, 'phone-full.png'), fullPage: true });

@@ -172,14 +172,20 @@ export async function waitSettled(page) {
 }
 
 /**
+ * Bring the results table on screen and wait until it says its rows show the current
+ * scenario (`data-fresh`). It refreshes only while on screen, so anything that reads or
+ * clicks it goes through here first.
+ */
+export async function showTable(page) {
+  await page.locator('#results-table').scrollIntoViewIfNeeded();
+  await page.waitForSelector('#results-table[data-fresh="true"]', { state: 'attached' });
+}
+
+/**
  * Everything the tests compare: per-district winners and fills, seats, table rows, address.
- * The results table refreshes only while on screen, so it is scrolled into view first.
  */
 export async function readPage(page) {
-  if ((await page.getAttribute('#app', 'data-state')) === 'ready') {
-    await page.locator('#results-table').scrollIntoViewIfNeeded();
-    await page.waitForSelector('#results-table[data-fresh="true"]', { state: 'attached' });
-  }
+  if ((await page.getAttribute('#app', 'data-state')) === 'ready') await showTable(page);
   return page.evaluate(() => {
     const paths = [...document.querySelectorAll('#map path.sm-district')];
     const byIndex = (list) => {

@@ -6,5 +6,6 @@
 pub mod curve;
 pub mod moe;
 pub mod plane;
+pub mod reach;
 pub mod simulate;
 pub mod tipping;

@@ -17,6 +17,7 @@ use geo::MultiPolygon;
 pub use districts::{MAX_DISTRICTS, MAX_GEOJSON_BYTES};
 pub use manifest::{manifest_files, Files};
 pub(crate) use number::parse_number;
+pub use number::round_text;
 
 /// A party on the ballot.
 #[derive(Debug, Clone, PartialEq)]

@@ -16,6 +16,24 @@ pub(crate) fn parse_number(field: &str) -> Result<f64, String> {
     }
 }
 
+/// `v` rounded to `decimals` places in its shortest form (no trailing zeros, no `-0`,
+/// no floating-point noise such as 1.2999999999999998): numbers in messages and words.
+pub fn round_text(v: f64, decimals: i32) -> String {
+    if !v.is_finite() {
+        return v.to_string();
+    }
+    let places = decimals.clamp(0, 15);
+    let f = 10f64.powi(places);
+    let r = (v * f).round() / f;
+    let r = if r == 0.0 { 0.0 } else { r };
+    let s = format!("{r:.*}", places as usize);
+    if s.contains('.') {
+        s.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        s
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::parse_number;
@@ -29,5 +47,8 @@ mod tests {
         assert!(parse_number("").is_err());
         assert!(parse_number("0x10").is_err());
         assert!(parse_number("1,5").is_err());
+        assert_eq!(super::round_text(1.2999999999999998, 4), "1.3");
+        assert_eq!(super::round_text(1.00512, 4), "1.0051");
+        assert_eq!(super::round_text(-0.00001, 4), "0");
     }
 }

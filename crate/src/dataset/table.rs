@@ -191,7 +191,10 @@ pub(crate) fn shares(
         c.push(
             Location::Row(row),
             Some(&party_ids.join("+")),
-            format!("vote shares must sum to 1 within {SHARE_SUM_TOLERANCE}; they sum to {sum}"),
+            format!(
+                "vote shares must sum to 1 within {SHARE_SUM_TOLERANCE}; they sum to {}",
+                super::number::round_text(sum, 4)
+            ),
         );
         return None;
     }

@@ -6,12 +6,15 @@
 use crate::analysis::curve::{seats_votes, Curve};
 use crate::analysis::moe;
 use crate::analysis::plane::{shift_plane, PlanePoint};
+use crate::analysis::reach::{self, Reach};
 use crate::analysis::tipping::tipping_point;
 use crate::dataset::Dataset;
 use crate::model::scenario::{Message, Scenario, Start, MAX_POINTS};
 use crate::model::tally::{cell, tally, tally_into, Shifts, Tally};
 use crate::output::map::{self, MapLayout, SvgOptions};
 use crate::output::shading;
+use crate::output::{publish, words};
+
 use serde::Serialize;
 
 /// Width of the map in SVG user units.
@@ -83,6 +86,28 @@ pub struct DistrictDetail {
 /// A party index, or -1 for none (a tie), as the page reads it.
 fn index_or_minus_one<S: serde::Serializer>(v: &Option<usize>, s: S) -> Result<S::Ok, S::Error> {
     s.serialize_i64(v.map_or(-1, |k| k as i64))
+}
+
+/// What it would take, as the page reads it.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct ReachView {
+    /// Group index, −1 for all groups together.
+    pub group: i64,
+    pub party: usize,
+    /// `wins_majority` or `loses_majority`.
+    pub outcome: &'static str,
+    pub turnout: Option<reach::Move>,
+    pub margin: Option<reach::Move>,
+    pub sentence: String,
+}
+
+/// Sentences for the page.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Words {
+    pub scenario: Vec<String>,
+    pub start: String,
+    pub lead: String,
+    pub tipping: &'static str,
 }
 
 /// The engine.
@@ -291,6 +316,58 @@ impl Engine {
         crate::output::export::tally_csv(&self.ds, &self.tally)
     }
 
+    /// What it would take (SPEC 2.5) for every group, then all groups together.
+    pub fn what_it_takes(&self) -> Vec<Reach> {
+        reach::what_it_takes(&self.ds, &self.scenario, &self.tally)
+    }
+
+    /// [`Self::what_it_takes`] with a sentence each, for the page.
+    pub fn what_it_takes_view(&self) -> Vec<ReachView> {
+        self.what_it_takes()
+            .into_iter()
+            .map(|r| ReachView {
+                group: r.group.map_or(-1, |g| g as i64),
+                party: r.aim.party(),
+                outcome: r.aim.outcome(),
+                turnout: r.turnout,
+                margin: r.margin,
+                sentence: words::reach_sentence(&self.ds, &r),
+            })
+            .collect()
+    }
+
+    /// The scenario in sentences and the fixed explanations beside it.
+    pub fn words(&self) -> Words {
+        Words {
+            scenario: self.scenario_sentences(),
+            start: words::start_sentence(&self.ds, &self.scenario),
+            lead: words::lead_explained(&self.ds),
+            tipping: words::TIPPING_DEFINITION,
+        }
+    }
+
+    /// [`Self::what_it_takes`] as CSV.
+    pub fn what_it_takes_csv(&self) -> String {
+        publish::reach_csv(&self.ds, &self.what_it_takes())
+    }
+
+    /// The CSV on the Web metadata of [`Self::tally_csv`], for a CSV saved as `csv_url`.
+    pub fn tally_csvw(&self, csv_url: &str) -> String {
+        let csv = self.tally_csv();
+        let header = csv.lines().next().unwrap_or_default();
+        publish::csvw_metadata(&self.ds, &self.scenario, header, csv_url)
+    }
+
+    /// The scenario as JSON, with the page's share link when there is one.
+    pub fn scenario_json(&self, link: Option<&str>) -> String {
+        publish::scenario_json(&self.ds, &self.scenario, link)
+    }
+
+    /// The scenario in sentences.
+    pub fn scenario_sentences(&self) -> Vec<String> {
+        words::scenario_sentences(&self.ds, &self.scenario)
+    }
+
     /// The page's inline map: districts only, filled by the page.
     pub fn map_svg(&self) -> String {
         let names: Vec<String> = self.ds.districts.iter().map(|d| d.name.clone()).collect();
@@ -337,38 +414,42 @@ impl Engine {
             .zip(&summary.seats)
             .map(|(p, s)| format!("{} {s}", p.name))
             .collect();
-        let q = self.scenario_query();
-        let mut footer = vec![
-            format!(
-                "Seats: {} (majority {} of {})",
+        let seats_line = match summary.majority_party {
+            Some(k) => format!(
+                "Seats: {} of {}; a majority is {}: {} holds one.",
+                seats.join(", "),
+                ds.total_seats(),
+                ds.majority,
+                ds.parties[k].name,
+            ),
+            None => format!(
+                "Seats: {}; a majority is {} of {}: no party holds one.",
                 seats.join(", "),
                 ds.majority,
                 ds.total_seats()
             ),
-            format!(
-                "Scenario: starts from the {}; {}",
-                if self.scenario.from_poll(ds) {
-                    "poll"
-                } else {
-                    "baseline"
-                },
-                if q.is_empty() {
-                    "no shifts".to_string()
-                } else {
-                    q.clone()
-                }
-            ),
-        ];
+        };
+        let mut footer = vec![seats_line];
+        footer.extend(words::scenario_sentences(ds, &self.scenario));
         if let Some(m) = &summary.shares_moe {
             let parts: Vec<String> = ds
                 .parties
                 .iter()
                 .zip(summary.shares.iter().zip(m))
-                .map(|(p, (s, e))| format!("{} {s:.1}% ± {e:.1}", p.name))
+                .map(|(p, (s, e))| {
+                    format!("{} {}% ± {}", p.name, words::points(*s), words::points(*e))
+                })
                 .collect();
             footer.push(format!(
                 "Nationwide shares (95% margin of error from the poll): {}",
                 parts.join(", ")
+            ));
+        }
+        if let Some(d) = summary.tipping {
+            footer.push(format!(
+                "{} Here: {} (ringed on the map).",
+                words::TIPPING_DEFINITION,
+                ds.districts[d].name
             ));
         }
         footer.push(format!("Source: {}", ds.source));

@@ -285,4 +285,35 @@ impl Engine {
     pub fn render_svg(&self) -> String {
         self.inner.render_svg()
     }
+
+    /// What it would take (SPEC 2.5): `[{group (index, -1 for all), party, outcome,
+    /// turnout: {change, value} | null, margin: {change, value} | null, sentence}]`.
+    /// Slower than a tally (a few hundred tallies): call when the sliders settle.
+    #[wasm_bindgen(js_name = whatItTakes)]
+    pub fn what_it_takes(&self) -> JsValue {
+        to_js(&self.inner.what_it_takes_view())
+    }
+
+    #[wasm_bindgen(js_name = whatItTakesCsv)]
+    pub fn what_it_takes_csv(&self) -> String {
+        self.inner.what_it_takes_csv()
+    }
+
+    /// CSV on the Web metadata for the tally's CSV saved as `csvUrl`.
+    #[wasm_bindgen(js_name = tallyCsvw)]
+    pub fn tally_csvw(&self, csv_url: &str) -> String {
+        self.inner.tally_csvw(csv_url)
+    }
+
+    /// The scenario as JSON, with the page's share link.
+    #[wasm_bindgen(js_name = scenarioJson)]
+    pub fn scenario_json(&self, link: Option<String>) -> String {
+        self.inner.scenario_json(link.as_deref())
+    }
+
+    /// The scenario in sentences, and the fixed lines a reader needs:
+    /// `{scenario: [..], start, lead, tipping}`.
+    pub fn words(&self) -> JsValue {
+        to_js(&self.inner.words())
+    }
 }

@@ -21,7 +21,7 @@ pub const MAX_PARTIES: usize = 12;
 
 /// Effective shifts per group, in points, after `all` and (when starting from the poll)
 /// the poll's swing are added.
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone, PartialEq, Default)]
 pub struct Shifts {
     pub turnout: Vec<f64>,
     pub margin: Vec<f64>,

@@ -4,4 +4,6 @@
 
 pub mod export;
 pub mod map;
+pub mod publish;
 pub mod shading;
+pub mod words;
