@@ -4,6 +4,45 @@
 import { Engine, manifestFiles } from './pkg/stratamap.js';
 import { checkDataUrl } from './link.js';
 
+// The largest file a dataset may have (the core's dataset::MAX_FILE_BYTES, which the
+// command line applies too): a bigger one is refused before, or while, it arrives.
+const MAX_FILE_BYTES = 100 * 1024 * 1024;
+
+async function readCapped(response, url) {
+  const tooBig = () => new Error(`${url.href} is larger than ${MAX_FILE_BYTES} bytes, the most a dataset's file may be.`);
+  const declared = Number(response.headers.get('Content-Length'));
+  if (Number.isFinite(declared) && declared > MAX_FILE_BYTES) {
+    response.body?.cancel();
+    throw tooBig();
+  }
+  if (!response.body) return response.text();
+  const reader = response.body.getReader();
+  const chunks = [];
+  let total = 0;
+  for (;;) {
+    const { done, value } = await reader.read();
+    if (done) break;
+    total += value.byteLength;
+    if (total > MAX_FILE_BYTES) {
+      reader.cancel();
+      throw tooBig();
+    }
+    chunks.push(value);
+  }
+  const bytes = new Uint8Array(total);
+  let at = 0;
+  for (const c of chunks) {
+    bytes.set(c, at);
+    at += c.byteLength;
+  }
+  // Like the command line, refuse bytes that are not UTF-8 rather than guess.
+  try {
+    return new TextDecoder('utf-8', { fatal: true }).decode(bytes);
+  } catch {
+    throw new Error(`${url.href} is not text in UTF-8.`);
+  }
+}
+
 async function fetchText(url, check) {
   let response;
   try {
@@ -16,7 +55,7 @@ async function fetchText(url, check) {
   if (!response.ok) {
     throw new Error(`Could not fetch ${url.href}: HTTP ${response.status} ${response.statusText}`.trim());
   }
-  return response.text();
+  return readCapped(response, url);
 }
 
 /**
@@ -29,7 +68,16 @@ export async function fetchDataset(value, { base, pageOrigin, allowed }) {
   const manifestUrl = check(value);
   const manifest = await fetchText(manifestUrl, check);
   const files = manifestFiles(manifest); // throws an Error naming the manifest's problems
-  const fileUrl = (name) => check(name, manifestUrl);
+  // The core refuses names that leave the manifest's folder (manifestFiles); the page
+  // checks the resolved address as well, so nothing outside the folder is ever fetched.
+  const folder = new URL('./', manifestUrl);
+  const fileUrl = (name) => {
+    const url = check(name, manifestUrl);
+    if (url.origin !== folder.origin || !url.pathname.startsWith(folder.pathname)) {
+      throw new Error(`dataset.json names a file outside the manifest's folder; a dataset reads only the files in its own folder.`);
+    }
+    return url;
+  };
   const [districts, electorate, poll] = await Promise.all([
     fetchText(fileUrl(files.districts), check),
     fetchText(fileUrl(files.electorate), check),

@@ -29,6 +29,9 @@ pub struct Problem {
 }
 
 impl Problem {
+    /// A problem; its file name, field and message pass through [`plain`], so whatever
+    /// of the input they carry cannot reach a terminal or a page as control characters,
+    /// and cannot make a message of megabytes.
     pub fn new(
         file: &str,
         location: Location,
@@ -36,12 +39,86 @@ impl Problem {
         message: impl Into<String>,
     ) -> Self {
         Problem {
-            file: file.to_string(),
+            file: plain(file, SHOWN_CHARS),
             location,
-            field: field.map(str::to_string),
-            message: message.into(),
+            field: field.map(|f| plain(f, SHOWN_CHARS)),
+            message: plain(&message.into(), MESSAGE_CHARS),
         }
     }
+}
+
+/// The most characters of a value from the input that a message quotes.
+pub const SHOWN_CHARS: usize = 60;
+/// The most characters of one message (the text around the quoted values included).
+pub const MESSAGE_CHARS: usize = 400;
+
+/// Whether a character would act rather than show: control characters (C0, DEL, C1) and
+/// the invisible formatting ones that reorder or hide text (bidirectional overrides and
+/// isolates, zero-width characters, the byte-order mark, line and paragraph separators).
+fn acts(c: char) -> bool {
+    c.is_control()
+        || matches!(c, '\u{200b}'..='\u{200f}' | '\u{2028}'..='\u{202e}' | '\u{2060}'..='\u{2069}' | '\u{feff}')
+}
+
+/// Text from the input made safe to print: characters that act are written as `\u{…}`
+/// escapes, and text longer than `max_chars` characters is cut, saying how long it was.
+///
+/// ```
+/// use stratamap::error::plain;
+/// assert_eq!(plain("a\u{1b}[2Jb", 60), "a\\u{1b}[2Jb");
+/// assert_eq!(plain(&"x".repeat(100), 5), "xxxxx… (cut: 100 characters in all)");
+/// ```
+pub fn plain(text: &str, max_chars: usize) -> String {
+    let mut out = String::with_capacity(text.len().min(max_chars * 2));
+    for (count, c) in text.chars().enumerate() {
+        if count == max_chars {
+            let total = text.chars().count();
+            out.push_str(&format!("… (cut: {total} characters in all)"));
+            return out;
+        }
+        if acts(c) {
+            out.push_str(&format!("\\u{{{:x}}}", c as u32));
+        } else {
+            out.push(c);
+        }
+    }
+    out
+}
+
+/// A value from the input, quoted for a message: in double quotes, with quotes,
+/// backslashes and characters that act escaped, and cut after [`SHOWN_CHARS`]
+/// characters, saying how long it was.
+///
+/// ```
+/// use stratamap::error::shown;
+/// assert_eq!(shown("north\u{0}"), r#""north\u{0}""#);
+/// let long = shown(&"9".repeat(130_000));
+/// assert!(long.ends_with("… (cut: 130000 characters in all)"));
+/// assert!(long.len() < 120);
+/// ```
+pub fn shown(value: &str) -> String {
+    let cut = value.char_indices().nth(SHOWN_CHARS).map(|(i, _)| i);
+    let head = &value[..cut.unwrap_or(value.len())];
+    let mut out = String::from("\"");
+    for c in head.chars() {
+        match c {
+            '"' => out.push_str("\\\""),
+            '\\' => out.push_str("\\\\"),
+            '\n' => out.push_str("\\n"),
+            '\r' => out.push_str("\\r"),
+            '\t' => out.push_str("\\t"),
+            c if acts(c) => out.push_str(&format!("\\u{{{:x}}}", c as u32)),
+            c => out.push(c),
+        }
+    }
+    out.push('"');
+    if cut.is_some() {
+        out.push_str(&format!(
+            "… (cut: {} characters in all)",
+            value.chars().count()
+        ));
+    }
+    out
 }
 
 impl fmt::Display for Problem {
@@ -106,7 +183,7 @@ pub(crate) struct Collector {
 impl Collector {
     pub fn new(file: &str) -> Self {
         Collector {
-            file: file.to_string(),
+            file: plain(file, SHOWN_CHARS),
             problems: Vec::new(),
             extra: 0,
         }

@@ -87,7 +87,12 @@ mod cli {
     }
 
     fn load(path: &std::path::Path) -> Result<Dataset, String> {
-        load_path(path).map_err(|e| format!("{} is not a valid dataset:\n{e}", path.display()))
+        load_path(path).map_err(|e| {
+            format!(
+                "{} is not a valid dataset:\n{e}",
+                stratamap::error::plain(&path.display().to_string(), 200)
+            )
+        })
     }
 
     fn engine(path: &std::path::Path, query: &str) -> Result<Engine, String> {
@@ -133,6 +138,10 @@ mod cli {
             ds.total_seats(),
             ds.majority
         );
+        out += &format!(
+            "seat rules: {}\n",
+            stratamap::facade::engine::seat_rules(&ds)
+        );
         let eligible: f64 = ds.cells.eligible.iter().sum();
         out += &format!("eligible: {eligible}\n");
         match &ds.poll {
@@ -152,6 +161,9 @@ mod cli {
         let t = e.tally();
         eprintln!("stratamap: {}", stratamap::CAUTION);
         eprintln!("stratamap: source: {}", e.dataset().source);
+        for note in stratamap::facade::engine::seat_notes(e.dataset(), &e.summary()) {
+            eprintln!("stratamap: {note}");
+        }
         if t.turnout_clamped > 0 {
             eprintln!(
                 "stratamap: the turnout clamp to [0, 1] bit in {} cells",
@@ -193,10 +205,23 @@ mod cli {
         let ds = e.dataset();
         let s = e.scenario();
         let runs = s.runs.unwrap_or(DEFAULT_RUNS);
-        if runs == 0 {
-            return Err("runs=0 asks for no simulation; give runs from 1 to 100000".into());
+        let json = stratamap::analysis::simulate::simulate(ds, s, runs).to_json();
+        if runs > 0 {
+            return Ok(json);
         }
-        Ok(stratamap::analysis::simulate::simulate(ds, s, runs).to_json())
+        // runs=0 asks for no simulation: the same keys, every count 0, and no seat or
+        // share statistics (null), since there are no runs to take them from.
+        let mut v: serde_json::Value =
+            serde_json::from_str(&json).map_err(|err| format!("cannot write JSON: {err}"))?;
+        if let Some(parties) = v.get_mut("parties").and_then(|p| p.as_array_mut()) {
+            for p in parties {
+                p["seats"] = serde_json::Value::Null;
+                p["share"] = serde_json::Value::Null;
+            }
+        }
+        serde_json::to_string_pretty(&v)
+            .map(|t| t + "\n")
+            .map_err(|err| format!("cannot write JSON: {err}"))
     }
 
     pub fn main() -> ExitCode {

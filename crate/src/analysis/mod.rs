@@ -5,6 +5,7 @@
 
 pub mod curve;
 pub mod moe;
+pub mod moe_effect;
 pub mod plane;
 pub mod reach;
 pub mod simulate;

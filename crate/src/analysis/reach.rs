@@ -32,7 +32,7 @@ use serde::Serialize;
 
 /// Step of the outward scan, points. A window in which the aim is met that is narrower
 /// than this can be missed (the seats are not always monotone in a turnout shift).
-pub const SCAN_STEP: f64 = 1.0;
+pub const SCAN_STEP: f64 = 2.5;
 /// Width at which the bisection stops, points.
 pub const BISECTION_TOLERANCE: f64 = 0.001;
 /// Precision of the reported change, points.

@@ -306,6 +306,10 @@ impl BlockResult {
 /// lead (best first, equal leads in GeoJSON order, a total order), the district at which
 /// the seats first reach the majority.
 pub fn tipping_point_fast(ds: &Dataset, t: &Tally, order: &mut Vec<(f64, usize)>) -> Option<usize> {
+    // Defined for winner-takes-all districts only (`tipping::why_none`).
+    if ds.has_proportional() {
+        return None;
+    }
     let leader = seat_leader(t)?;
     let majority = u64::from(ds.majority);
     if ds.total_seats() < majority {
@@ -428,20 +432,20 @@ impl Merged {
 
     /// The summary (SPEC 4) of the runs merged so far, for `scenario` (the canonical
     /// scenario string whose runs these are).
-    pub fn report(&self, ds: &Dataset, seed: u64, scenario: String) -> Report {
+    pub fn report(&self, labels: &Labels, seed: u64, scenario: String) -> Report {
         let (k_count, r) = (self.k_count, self.runs as usize);
-        let parties = ds
+        let parties = labels
             .parties
             .iter()
             .enumerate()
-            .map(|(k, p)| {
+            .map(|(k, id)| {
                 let mut seats: Vec<u32> = (0..r).map(|i| self.seats[i * k_count + k]).collect();
                 seats.sort_unstable();
                 let mut shares: Vec<f64> = (0..r).map(|i| self.shares[i * k_count + k]).collect();
                 shares.sort_by(f64::total_cmp);
                 let total: u64 = seats.iter().map(|&s| u64::from(s)).sum();
                 PartyReport {
-                    id: p.id.clone(),
+                    id: id.clone(),
                     majority_runs: self.majority[k],
                     seats: SeatReport {
                         mean: if r > 0 { total as f64 / r as f64 } else { 0.0 },
@@ -458,18 +462,19 @@ impl Merged {
                 }
             })
             .collect();
-        let districts = ds
+        let districts = labels
             .districts
             .iter()
             .enumerate()
-            .map(|(d, dist)| {
+            .map(|(d, id)| {
                 let w = &self.wins[d * (k_count + 1)..(d + 1) * (k_count + 1)];
                 DistrictReport {
-                    id: dist.id.clone(),
+                    id: id.clone(),
                     runs_won: RunsWon(
-                        ds.parties
+                        labels
+                            .parties
                             .iter()
-                            .map(|p| p.id.clone())
+                            .cloned()
                             .chain(std::iter::once("tie".to_string()))
                             .zip(w.iter().copied())
                             .collect(),
@@ -486,8 +491,27 @@ impl Merged {
             no_majority_runs: self.majority[k_count],
             parties,
             districts,
-            source: ds.source.clone(),
+            source: labels.source.clone(),
             caution: crate::CAUTION,
+        }
+    }
+}
+
+/// What a report names: party and district ids and the dataset's source line (so that
+/// the blocks can be summarised where the dataset itself is not kept).
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct Labels {
+    pub parties: Vec<String>,
+    pub districts: Vec<String>,
+    pub source: String,
+}
+
+impl Labels {
+    pub fn of(ds: &Dataset) -> Labels {
+        Labels {
+            parties: ds.parties.iter().map(|p| p.id.clone()).collect(),
+            districts: ds.districts.iter().map(|d| d.id.clone()).collect(),
+            source: ds.source.clone(),
         }
     }
 }
@@ -619,7 +643,11 @@ pub fn simulate(ds: &Dataset, s: &Scenario, runs: u32) -> Report {
     for b in 0..plan.block_count() {
         merged.add(plan.run_block(ds, b, &mut scratch));
     }
-    merged.report(ds, s.seed, scenario_with_runs(ds, s, plan.runs))
+    merged.report(
+        &Labels::of(ds),
+        s.seed,
+        scenario_with_runs(ds, s, plan.runs),
+    )
 }
 
 /// The canonical scenario string of `s` with `runs` runs (what reproduces them).
@@ -759,13 +787,13 @@ mod tests {
         assert!(m.add(blocks[1].clone()));
         assert_eq!(m.runs_done(), 600);
         let q = scenario_with_runs(&ds, &s, 600);
-        assert_eq!(m.report(&ds, 5, q).to_json(), one.to_json());
+        assert_eq!(m.report(&Labels::of(&ds), 5, q).to_json(), one.to_json());
         let mut first_two = Merged::new(3, 3);
         first_two.add(blocks[0].clone());
         first_two.add(blocks[1].clone());
         let q500 = scenario_with_runs(&ds, &s, 500);
         assert_eq!(
-            first_two.report(&ds, 5, q500).to_json(),
+            first_two.report(&Labels::of(&ds), 5, q500).to_json(),
             simulate(&ds, &s, 500).to_json()
         );
     }

@@ -2,8 +2,14 @@
 
 use super::table::{self, field};
 use super::Cells;
-use crate::error::{Collector, Location};
+use crate::error::{shown, Collector, Location};
 use std::collections::HashMap;
+
+/// Most eligible people a dataset may hold in all: 10^15, well below 2^53 (about
+/// 9.007 × 10^15), so sums of votes stay finite and keep a precision far finer than one
+/// voter, however the groups are cut. (The world has under 10^10 people.)
+pub const MAX_TOTAL_ELIGIBLE: f64 = 1e15;
+const MAX_TOTAL_ELIGIBLE_TEXT: &str = "1,000,000,000,000,000";
 
 pub(crate) fn parse(
     file: &str,
@@ -28,6 +34,8 @@ pub(crate) fn parse(
     let g_index: HashMap<&str, usize> = groups.iter().enumerate().map(|(i, g)| (*g, i)).collect();
     let mut seen: HashMap<usize, usize> = HashMap::new();
     let mut rows = 0usize;
+    let mut total = 0.0f64;
+    let mut too_many = false;
     table::read(
         text,
         &mut c,
@@ -44,7 +52,7 @@ pub(crate) fn parse(
                 c.push(
                     Location::Row(row),
                     Some("district"),
-                    format!("no district with id {did:?} in the districts file"),
+                    format!("no district with id {} in the districts file", shown(did)),
                 );
             }
             let g = g_index.get(gid).copied();
@@ -52,7 +60,7 @@ pub(crate) fn parse(
                 c.push(
                     Location::Row(row),
                     Some("group"),
-                    format!("no group with id {gid:?} in the manifest"),
+                    format!("no group with id {} in the manifest", shown(gid)),
                 );
             }
             let eligible = table::number_in(
@@ -78,11 +86,29 @@ pub(crate) fn parse(
                 c.push(
                     Location::Row(row),
                     Some("district+group"),
-                    format!("district {did:?} and group {gid:?} were already given in row {first}"),
+                    format!(
+                        "district {} and group {} were already given in row {first}",
+                        shown(did),
+                        shown(gid)
+                    ),
                 );
                 return;
             }
             if let (Some(e), Some(t), Some(s)) = (eligible, turnout, shares) {
+                total += e;
+                if total > MAX_TOTAL_ELIGIBLE && !too_many {
+                    too_many = true;
+                    c.push(
+                        Location::Row(row),
+                        Some("eligible"),
+                        format!(
+                            "the eligible counts add up to more than {} by this row; \
+                             a dataset may hold at most that many people, so that every \
+                             sum of votes stays finite and exact to a fraction of a voter",
+                            MAX_TOTAL_ELIGIBLE_TEXT
+                        ),
+                    );
+                }
                 cells.eligible[cell] = e;
                 cells.turnout[cell] = t;
                 cells.shares[cell * nk..(cell + 1) * nk].copy_from_slice(&s);
@@ -105,7 +131,7 @@ pub(crate) fn parse(
                 c.push(
                     Location::File,
                     Some("eligible"),
-                    format!("district {id:?} has no row with eligible > 0"),
+                    format!("district {} has no row with eligible > 0", shown(id)),
                 );
             }
         }

@@ -1,7 +1,8 @@
 //! The manifest, `dataset.json` (SPEC 1.1).
 
-use super::{is_valid_id, Group, Party, Preset, MANIFEST};
-use crate::error::{Collector, Location};
+use super::seat_rule::{parse_rule, parse_threshold};
+use super::{is_valid_id, shown_value, Group, Party, Preset, SeatRule, MANIFEST};
+use crate::error::{shown, Collector, Location};
 use serde::Serialize;
 use serde_json::{Map, Value};
 
@@ -21,6 +22,8 @@ pub(crate) struct Manifest {
     pub groups: Vec<Group>,
     pub files: Files,
     pub majority: Option<u32>,
+    pub seat_rule: SeatRule,
+    pub threshold: f64,
     pub presets: Vec<Preset>,
 }
 
@@ -46,7 +49,7 @@ pub fn manifest_files(text: &str) -> Result<Files, crate::error::DatasetError> {
 }
 
 fn root(text: &str, c: &mut Collector) -> Option<Map<String, Value>> {
-    match serde_json::from_str::<Value>(text) {
+    match serde_json::from_str::<Value>(super::without_bom(text)) {
         Ok(Value::Object(o)) => Some(o),
         Ok(_) => {
             c.push(
@@ -87,15 +90,62 @@ fn string(o: &Map<String, Value>, key: &str, path: &str, c: &mut Collector) -> O
 
 fn file_name(o: &Map<String, Value>, key: &str, c: &mut Collector) -> Option<String> {
     let s = string(o, key, key, c)?;
-    if s.contains('\\') || s.contains('\0') {
-        c.push(
-            Location::File,
-            Some(key),
-            "expected a relative path with forward slashes",
-        );
-        return None;
+    match file_name_problem(&s) {
+        None => Some(s),
+        Some(why) => {
+            c.push(
+                Location::File,
+                Some(key),
+                format!("{why}, found {}", shown(&s)),
+            );
+            None
+        }
     }
-    Some(s)
+}
+
+/// Longest file name a manifest may give, in characters.
+pub const MAX_FILE_NAME_CHARS: usize = 255;
+
+/// Why a file name that a manifest gives is refused, if it is. A dataset reads only files
+/// in its own folder or below it: names are relative paths of plain segments joined by
+/// `/`, never absolute, never `.` or `..`, and free of what a path or an address would
+/// treat specially (`\`, `:`, `?`, `#`, `%`, control characters). The page resolves the
+/// same names against the manifest's address, so they cannot leave its folder there
+/// either (`%2e%2e` is `..` to a URL parser, `a:` a scheme).
+///
+/// ```
+/// use stratamap::dataset::file_name_problem;
+/// assert_eq!(file_name_problem("maps/districts.geojson"), None);
+/// assert!(file_name_problem("../secret.csv").is_some());
+/// assert!(file_name_problem("/etc/hosts").is_some());
+/// assert!(file_name_problem("https://elsewhere/e.csv").is_some());
+/// ```
+pub fn file_name_problem(name: &str) -> Option<&'static str> {
+    if name.chars().count() > MAX_FILE_NAME_CHARS {
+        return Some("expected a file name of at most 255 characters");
+    }
+    if name.starts_with('/') {
+        return Some(
+            "expected a path relative to the manifest's folder, not an absolute path: \
+             a dataset reads only the files in its own folder",
+        );
+    }
+    if name
+        .chars()
+        .any(|ch| ch.is_control() || matches!(ch, '\\' | ':' | '?' | '#' | '%'))
+    {
+        return Some(
+            "expected a relative path of plain names joined by /, without \\, :, ?, #, % \
+             or control characters",
+        );
+    }
+    if name.split('/').any(|seg| seg == "..") {
+        return Some("expected a file in the manifest's folder or below it: \"..\" would leave it");
+    }
+    if name.split('/').any(|seg| seg.is_empty() || seg == ".") {
+        return Some("expected a relative path without empty or \".\" parts");
+    }
+    None
 }
 
 fn files(o: &Map<String, Value>, c: &mut Collector) -> Option<Files> {
@@ -160,7 +210,10 @@ fn id_list<T>(
             c.push(
                 Location::File,
                 Some(&format!("{path}.id")),
-                format!("expected an id of 1 to 32 characters from a-z 0-9 _ -, found {id:?}"),
+                format!(
+                    "expected an id of 1 to 32 characters from a-z 0-9 _ -, found {}",
+                    shown(&id)
+                ),
             );
             continue;
         }
@@ -168,7 +221,7 @@ fn id_list<T>(
             c.push(
                 Location::File,
                 Some(&format!("{path}.id")),
-                format!("id {id:?} is used twice"),
+                format!("id {} is used twice", shown(&id)),
             );
             continue;
         }
@@ -195,7 +248,7 @@ pub(crate) fn parse(text: &str) -> Result<Manifest, Collector> {
             c.push(
                 Location::File,
                 Some(&format!("{path}.color")),
-                format!("expected a colour as #rrggbb, found {color:?}"),
+                format!("expected a colour as #rrggbb, found {}", shown(&color)),
             );
             return None;
         }
@@ -233,7 +286,7 @@ pub(crate) fn parse(text: &str) -> Result<Manifest, Collector> {
                         c.push(
                             Location::File,
                             Some(&format!("axis[{i}]")),
-                            format!("expected the id of a party, found {v}"),
+                            format!("expected the id of a party, found {}", shown_value(v)),
                         );
                     }
                 }
@@ -266,11 +319,27 @@ pub(crate) fn parse(text: &str) -> Result<Manifest, Collector> {
                 c.push(
                     Location::File,
                     Some("majority"),
-                    format!("expected a whole number of seats, at least 1, found {v}"),
+                    format!(
+                        "expected a whole number of seats, at least 1, found {}",
+                        shown_value(v)
+                    ),
                 );
                 None
             }
         },
+    };
+
+    let seat_rule = match o.get("seat_rule") {
+        None | Some(Value::Null) => Some(SeatRule::Winner),
+        Some(v) => parse_rule(v)
+            .map_err(|m| c.push(Location::File, Some("seat_rule"), m))
+            .ok(),
+    };
+    let threshold = match o.get("threshold") {
+        None | Some(Value::Null) => Some(0.0),
+        Some(v) => parse_threshold(v)
+            .map_err(|m| c.push(Location::File, Some("threshold"), m))
+            .ok(),
     };
 
     let mut presets = Vec::new();
@@ -303,19 +372,27 @@ pub(crate) fn parse(text: &str) -> Result<Manifest, Collector> {
         Some(_) => c.push(Location::File, Some("presets"), "expected an array"),
     }
 
-    match (title, source, files, axis, majority) {
-        (Some(title), Some(source), Some(files), Some(axis), Some(majority)) if c.is_empty() => {
-            Ok(Manifest {
-                title,
-                source,
-                parties,
-                axis,
-                groups,
-                files,
-                majority,
-                presets,
-            })
-        }
+    match (title, source, files, axis, majority, seat_rule, threshold) {
+        (
+            Some(title),
+            Some(source),
+            Some(files),
+            Some(axis),
+            Some(majority),
+            Some(seat_rule),
+            Some(threshold),
+        ) if c.is_empty() => Ok(Manifest {
+            title,
+            source,
+            parties,
+            axis,
+            groups,
+            files,
+            majority,
+            seat_rule,
+            threshold,
+            presets,
+        }),
         _ => Err(c),
     }
 }
@@ -352,6 +429,27 @@ mod tests {
             .any(|l| l.contains("field groups[0].id") && l.contains("reserved")));
         assert!(p.iter().any(|l| l.contains("field majority")));
         assert!(p.iter().all(|l| l.starts_with("dataset.json")));
+    }
+
+    #[test]
+    fn seat_rule_and_threshold() {
+        let base = r##"{"title":"t","source":"s","districts":"d","electorate":"e",
+            "parties":[{"id":"a","name":"x","color":"#000000"},{"id":"b","name":"y","color":"#FFFFFF"}],
+            "groups":[{"id":"g","name":"g"}] MORE}"##;
+        let m = parse(&base.replace("MORE", "")).ok().unwrap();
+        assert_eq!((m.seat_rule, m.threshold), (SeatRule::Winner, 0.0));
+        let m = parse(&base.replace("MORE", r#","seat_rule":"sainte_lague","threshold":4"#))
+            .ok()
+            .unwrap();
+        assert_eq!((m.seat_rule, m.threshold), (SeatRule::SainteLague, 4.0));
+        let p = problems(&base.replace("MORE", r#","seat_rule":"pr","threshold":-2"#));
+        assert_eq!(
+            p,
+            vec![
+                r#"dataset.json, field seat_rule: expected "winner", "dhondt", "sainte_lague" or "hare", found "pr""#,
+                "dataset.json, field threshold: expected a percentage of the district's votes from 0 to 50, found -2",
+            ]
+        );
     }
 
     #[test]

@@ -1,5 +1,7 @@
 //! Number fields of the CSV files.
 
+use crate::error::shown;
+
 /// Parse a finite decimal number from a CSV field (surrounding spaces allowed,
 /// exponents allowed as spreadsheets write them; NaN and infinities refused).
 pub(crate) fn parse_number(field: &str) -> Result<f64, String> {
@@ -12,7 +14,7 @@ pub(crate) fn parse_number(field: &str) -> Result<f64, String> {
         .all(|b| b.is_ascii_digit() || matches!(b, b'.' | b'-' | b'+' | b'e' | b'E'));
     match t.parse::<f64>() {
         Ok(v) if ok_chars && v.is_finite() => Ok(v),
-        _ => Err(format!("expected a finite number, found {t:?}")),
+        _ => Err(format!("expected a finite number, found {}", shown(t))),
     }
 }
 

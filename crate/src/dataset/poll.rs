@@ -2,7 +2,7 @@
 
 use super::table::{self, field};
 use super::Poll;
-use crate::error::{Collector, Location};
+use crate::error::{shown, Collector, Location};
 
 /// Largest design effect accepted (a larger one almost certainly is a typo).
 const MAX_DESIGN_EFFECT: f64 = 100.0;
@@ -34,7 +34,7 @@ pub(crate) fn parse(
                 c.push(
                     Location::Row(row),
                     Some("group"),
-                    format!("no group with id {gid:?} in the manifest"),
+                    format!("no group with id {} in the manifest", shown(gid)),
                 );
             }
             let n = table::number_in(
@@ -73,7 +73,7 @@ pub(crate) fn parse(
                 c.push(
                     Location::Row(row),
                     Some("group"),
-                    format!("group {gid:?} was already given in row {first}"),
+                    format!("group {} was already given in row {first}", shown(gid)),
                 );
                 return;
             }
@@ -91,7 +91,10 @@ pub(crate) fn parse(
                 c.push(
                     Location::File,
                     Some("group"),
-                    format!("no row for group {id:?}: the poll needs an estimate for every group"),
+                    format!(
+                        "no row for group {}: the poll needs an estimate for every group",
+                        shown(id)
+                    ),
                 );
             }
         }

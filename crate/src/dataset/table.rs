@@ -25,7 +25,7 @@ pub(crate) fn read(
     let mut reader = csv::ReaderBuilder::new()
         .has_headers(true)
         .flexible(false)
-        .from_reader(text.as_bytes());
+        .from_reader(super::without_bom(text).as_bytes());
     let headers = match reader.headers() {
         Ok(h) => h.clone(),
         Err(e) => {

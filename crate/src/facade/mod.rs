@@ -6,3 +6,5 @@
 pub mod engine;
 #[cfg(target_arch = "wasm32")]
 mod wasm;
+#[cfg(target_arch = "wasm32")]
+mod wasm_sim;

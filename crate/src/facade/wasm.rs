@@ -47,7 +47,7 @@ pub fn manifest_files_js(manifest: &str) -> Result<JsValue, JsError> {
 
 #[wasm_bindgen]
 pub struct Engine {
-    inner: engine::Engine,
+    pub(crate) inner: engine::Engine,
 }
 
 #[derive(Serialize)]

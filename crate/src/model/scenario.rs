@@ -13,6 +13,7 @@
 //! ```
 
 use crate::dataset::Dataset;
+use crate::error::{plain, shown, MESSAGE_CHARS, SHOWN_CHARS};
 use serde::Serialize;
 use std::fmt;
 
@@ -56,6 +57,12 @@ pub struct Scenario {
     pub margin_sd: f64,
     pub district_sd: f64,
     pub turnout_corr: f64,
+    /// `embed=1`: the page's compact layout for an article's iframe (page only; the
+    /// numbers do not depend on it).
+    pub embed: bool,
+    /// `show`: the groups whose sliders an embed shows, in dataset order; `None`: all
+    /// (page only).
+    pub show: Option<Vec<usize>>,
 }
 
 /// A problem with one key of a scenario string.
@@ -137,6 +144,8 @@ impl Scenario {
             margin_sd: DEFAULT_MARGIN_SD,
             district_sd: DEFAULT_DISTRICT_SD,
             turnout_corr: DEFAULT_TURNOUT_CORR,
+            embed: false,
+            show: None,
         }
     }
 
@@ -160,10 +169,12 @@ impl Scenario {
     pub fn parse(query: &str, ds: &Dataset) -> Parsed {
         let mut s = Scenario::default_for(ds);
         let mut messages = Vec::new();
+        // A key or value from the link never reaches a terminal or a page raw: control
+        // characters are escaped and long text is cut (crate::error::plain).
         let mut say = |key: &str, message: String| {
             messages.push(Message {
-                key: key.to_string(),
-                message,
+                key: plain(key, SHOWN_CHARS),
+                message: plain(&message, MESSAGE_CHARS),
             })
         };
         let q = query.trim_start_matches('?');
@@ -191,7 +202,10 @@ impl Scenario {
                             continue;
                         }
                         let Some((gid, pts)) = entry.split_once(':') else {
-                            say(&key, format!("{entry:?} is not of the form group:points"));
+                            say(
+                                &key,
+                                format!("{} is not of the form group:points", shown(entry)),
+                            );
                             continue;
                         };
                         let g = if gid == "all" {
@@ -200,7 +214,7 @@ impl Scenario {
                             match ds.group_index(gid) {
                                 Some(g) => Some(g),
                                 None => {
-                                    say(&key, format!("unknown group {gid:?}"));
+                                    say(&key, format!("unknown group {}", shown(gid)));
                                     continue;
                                 }
                             }
@@ -209,13 +223,17 @@ impl Scenario {
                             say(
                                 &key,
                                 format!(
-                                    "{gid}:{pts} is not allowed; expected points from -100 to 100"
+                                    "{} is not allowed; expected points from -100 to 100",
+                                    shown(entry)
                                 ),
                             );
                             continue;
                         };
                         if given.iter().any(|x| x == gid) {
-                            say(&key, format!("group {gid:?} given twice; the last value applies"));
+                            say(
+                                &key,
+                                format!("group {} given twice; the last value applies", shown(gid)),
+                            );
                         }
                         given.push(gid.to_string());
                         match g {
@@ -238,20 +256,29 @@ impl Scenario {
                         "this dataset has no poll; the scenario starts from the baseline".into(),
                     ),
                     "baseline" => s.start = Start::Baseline,
-                    other => say(&key, format!("{other:?} is not allowed; expected poll or baseline")),
+                    other => say(
+                        &key,
+                        format!("{} is not allowed; expected poll or baseline", shown(other)),
+                    ),
                 },
                 "runs" => match parse_integer(value).filter(|v| *v <= u64::from(MAX_RUNS)) {
                     Some(v) => s.runs = Some(v as u32),
                     None => say(
                         &key,
-                        format!("{value:?} is not allowed; expected a whole number from 0 to {MAX_RUNS}"),
+                        format!(
+                            "{} is not allowed; expected a whole number from 0 to {MAX_RUNS}",
+                            shown(value)
+                        ),
                     ),
                 },
                 "seed" => match parse_integer(value).filter(|v| *v <= MAX_SEED) {
                     Some(v) => s.seed = v,
                     None => say(
                         &key,
-                        format!("{value:?} is not allowed; expected a whole number from 0 to {MAX_SEED}"),
+                        format!(
+                            "{} is not allowed; expected a whole number from 0 to {MAX_SEED}",
+                            shown(value)
+                        ),
                     ),
                 },
                 "turnout_sd" | "margin_sd" | "district_sd" | "turnout_corr" => {
@@ -266,11 +293,29 @@ impl Scenario {
                         None => say(
                             &key,
                             format!(
-                                "{value:?} is not allowed; expected a number from 0 to {}",
+                                "{} is not allowed; expected a number from 0 to {}",
+                                shown(value),
                                 fmt_number(hi)
                             ),
                         ),
                     }
+                }
+                "embed" => match value {
+                    "1" => s.embed = true,
+                    "0" => s.embed = false,
+                    other => say(&key, format!("{other:?} is not allowed; expected 1 (or 0)")),
+                },
+                "show" => {
+                    let mut groups = Vec::new();
+                    for gid in value.split(',').filter(|g| !g.is_empty()) {
+                        match ds.group_index(gid) {
+                            Some(g) if !groups.contains(&g) => groups.push(g),
+                            Some(_) => {}
+                            None => say(&key, format!("unknown group {gid:?}")),
+                        }
+                    }
+                    groups.sort_unstable();
+                    s.show = (!groups.is_empty()).then_some(groups);
                 }
                 _ => say(&key, "unknown key; ignored".into()),
             }
@@ -350,6 +395,18 @@ impl Scenario {
                 parts.push(format!("{key}={}", fmt_number(v)));
             }
         }
+        if self.embed {
+            parts.push("embed=1".into());
+        }
+        if let Some(show) = &self.show {
+            let ids: Vec<&str> = show
+                .iter()
+                .filter_map(|&g| ds.groups.get(g).map(|x| x.id.as_str()))
+                .collect();
+            if !ids.is_empty() {
+                parts.push(format!("show={}", ids.join(",")));
+            }
+        }
         parts.join("&")
     }
 }
@@ -358,6 +415,25 @@ impl Scenario {
 mod tests {
     use super::*;
     use crate::testdata::two_groups;
+
+    #[test]
+    fn embed_and_show_round_trip() {
+        let ds = two_groups();
+        let p = Scenario::parse("show=old,young,old,nobody&embed=1&turnout=all:1", &ds);
+        assert_eq!(p.scenario.show, Some(vec![0, 1]));
+        assert!(p.scenario.embed);
+        assert_eq!(p.messages.len(), 1);
+        assert!(p.messages[0]
+            .to_string()
+            .contains("unknown group \"nobody\""));
+        assert_eq!(
+            p.scenario.to_query(&ds),
+            "turnout=all:1&embed=1&show=young,old"
+        );
+        let p = Scenario::parse("embed=yes&show=", &ds);
+        assert!(!p.scenario.embed && p.scenario.show.is_none());
+        assert_eq!(p.messages.len(), 1);
+    }
 
     #[test]
     fn decimals() {

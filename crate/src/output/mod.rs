@@ -6,4 +6,5 @@ pub mod export;
 pub mod map;
 pub mod publish;
 pub mod shading;
+pub mod won;
 pub mod words;

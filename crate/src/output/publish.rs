@@ -115,6 +115,10 @@ pub fn scenario_json(ds: &Dataset, s: &Scenario, link: Option<&str>) -> String {
         "margin_sd": s.margin_sd,
         "district_sd": s.district_sd,
         "turnout_corr": s.turnout_corr,
+        "embed": s.embed,
+        "show": s.show.as_ref().map(|v| {
+            v.iter().map(|&g| ds.groups[g].id.clone()).collect::<Vec<_>>()
+        }),
         "in_words": scenario_sentences(ds, s),
         "caution": crate::CAUTION,
     });

@@ -530,16 +530,18 @@ pub fn build(seed: u64) -> Result<Demo, String> {
     let b_name = dataset.parties[b].name.clone();
     dataset.presets = vec![
         Preset {
-            name: "Young voters turn out".into(),
+            name: "Young voters turn out: 8 points more under 30, 4 more from 30 to 44".into(),
             scenario: "turnout=a18_29_deg:8,a18_29_nodeg:8,a30_44_deg:4,a30_44_nodeg:4".into(),
         },
         Preset {
-            name: "Older voters stay home (from the baseline)".into(),
+            name: "Older voters stay home: 5 points fewer from 60 to 74, 7 fewer over 75 (from the dataset's figures, not the poll)".into(),
             scenario: "turnout=a60_74_deg:-5,a60_74_nodeg:-5,a75_plus_deg:-7,a75_plus_nodeg:-7&start=baseline"
                 .into(),
         },
         Preset {
-            name: format!("Two points from {a_name} to {b_name} everywhere (from the baseline)"),
+            name: format!(
+                "{b_name}'s lead 2 points better everywhere (1 point of vote share from {a_name}; from the dataset's figures, not the poll)"
+            ),
             scenario: "margin=all:-2&start=baseline".into(),
         },
     ];
