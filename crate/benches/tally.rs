@@ -1,15 +1,18 @@
 //! Times the tally on a generated 3,000-district × 24-group × 4-party dataset.
 //! Run with `cargo bench -p stratamap --bench tally`; it prints figures, asserts nothing.
 //! `STRATAMAP_BENCH_REPS` sets the number of recomputes (2,000), and
-//! `STRATAMAP_BENCH_DISTRICTS` the number of districts (3,000).
+//! `STRATAMAP_BENCH_DISTRICTS` the number of districts (3,000), and
+//! `STRATAMAP_BENCH_RULE` the seat rule of every district (`winner`; a proportional rule
+//! gives each district 5 seats).
 
 use geo::{polygon, MultiPolygon};
 use std::hint::black_box;
 use std::time::Instant;
-use stratamap::dataset::{Cells, Dataset, District, Files, Group, Party};
+use stratamap::dataset::{Cells, Dataset, District, Files, Group, Party, SeatRule};
 use stratamap::model::tally::{tally_into, Shifts, Tally};
 
-fn dataset(d_count: usize, g_count: usize, k_count: usize) -> Dataset {
+fn dataset(d_count: usize, g_count: usize, k_count: usize, rule: SeatRule) -> Dataset {
+    let seats = if rule.is_proportional() { 5 } else { 1 };
     // A small linear congruential sequence: reproducible numbers without a dependency.
     let mut state: u64 = 12345;
     let mut next = move || {
@@ -47,14 +50,18 @@ fn dataset(d_count: usize, g_count: usize, k_count: usize) -> Dataset {
             .map(|d| District {
                 id: format!("d{d}"),
                 name: format!("D{d}"),
-                seats: 1,
+                seats,
                 region: None,
                 shape: MultiPolygon(vec![
                     polygon![(x: 0.0, y: 0.0), (x: 1.0, y: 0.0), (x: 1.0, y: 1.0)],
                 ]),
+                seat_rule: rule,
+                threshold: 0.0,
             })
             .collect(),
-        majority: (d_count / 2 + 1) as u32,
+        majority: (d_count * seats as usize / 2 + 1) as u32,
+        seat_rule: rule,
+        threshold: 0.0,
         presets: vec![],
         cells,
         poll: None,
@@ -71,7 +78,11 @@ fn main() {
         .ok()
         .and_then(|v| v.parse().ok())
         .unwrap_or(3000);
-    let ds = dataset(districts, 24, 4);
+    let rule = std::env::var("STRATAMAP_BENCH_RULE")
+        .ok()
+        .and_then(|v| SeatRule::from_id(&v))
+        .unwrap_or(SeatRule::Winner);
+    let ds = dataset(districts, 24, 4, rule);
     let mut shifts = Shifts::zero(&ds);
     let mut t = Tally::default();
     tally_into(&ds, &shifts, 0.0, None, &mut t);
@@ -91,7 +102,8 @@ fn main() {
     times.sort_by(f64::total_cmp);
     let p = |q: f64| times[((times.len() - 1) as f64 * q) as usize];
     println!(
-        "tally {districts} districts x 24 groups x 4 parties: p50 {:.3} ms, p95 {:.3} ms, min {:.3} ms ({reps} runs)",
+        "tally {districts} districts x 24 groups x 4 parties, {}: p50 {:.3} ms, p95 {:.3} ms, min {:.3} ms ({reps} runs)",
+        rule.id(),
         p(0.5),
         p(0.95),
         times[0]

@@ -138,6 +138,10 @@ mod cli {
             ds.total_seats(),
             ds.majority
         );
+        out += &format!(
+            "seat rules: {}\n",
+            stratamap::facade::engine::seat_rules(&ds)
+        );
         let eligible: f64 = ds.cells.eligible.iter().sum();
         out += &format!("eligible: {eligible}\n");
         match &ds.poll {
@@ -157,6 +161,9 @@ mod cli {
         let t = e.tally();
         eprintln!("stratamap: {}", stratamap::CAUTION);
         eprintln!("stratamap: source: {}", e.dataset().source);
+        for note in stratamap::facade::engine::seat_notes(e.dataset(), &e.summary()) {
+            eprintln!("stratamap: {note}");
+        }
         if t.turnout_clamped > 0 {
             eprintln!(
                 "stratamap: the turnout clamp to [0, 1] bit in {} cells",

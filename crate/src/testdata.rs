@@ -62,3 +62,26 @@ pub fn two_groups_no_poll() -> Dataset {
     })
     .expect("the test dataset is valid")
 }
+
+/// The tiny dataset (without its poll) with proportional seats: D'Hondt by default with
+/// a 5% threshold, Ypo electing 5 seats, Xe keeping the winner rule. Worked by hand in
+/// `tally.rs`'s tests.
+pub fn proportional() -> Dataset {
+    let manifest = MANIFEST.replace(
+        "\"poll\": \"poll.csv\",",
+        "\"seat_rule\": \"dhondt\", \"threshold\": 5,",
+    );
+    let districts = DISTRICTS
+        .replace(
+            "\"name\": \"Xe\",",
+            "\"name\": \"Xe\", \"seat_rule\": \"winner\",",
+        )
+        .replace("\"seats\": 2,", "\"seats\": 5,");
+    Dataset::from_sources(&Sources {
+        manifest: &manifest,
+        districts: &districts,
+        electorate: ELECTORATE,
+        poll: None,
+    })
+    .expect("the proportional test dataset is valid")
+}

@@ -3,7 +3,7 @@
 #![allow(dead_code)]
 
 use geo::{polygon, MultiPolygon};
-use stratamap::dataset::{Cells, Dataset, District, Files, Group, Party};
+use stratamap::dataset::{Cells, Dataset, District, Files, Group, Party, SeatRule};
 
 /// A dataset from flat arrays; shares per cell are normalised to sum to 1.
 pub fn synthetic(d_count: usize, g_count: usize, k_count: usize, values: &[f64]) -> Dataset {
@@ -33,6 +33,8 @@ pub fn synthetic(d_count: usize, g_count: usize, k_count: usize, values: &[f64])
                 shape: MultiPolygon(vec![polygon![
                     (x: x, y: 0.0), (x: x + 1.0, y: 0.0), (x: x + 1.0, y: 1.0), (x: x, y: 1.0)
                 ]]),
+                seat_rule: SeatRule::Winner,
+                threshold: 0.0,
             }
         })
         .collect::<Vec<_>>();
@@ -56,6 +58,8 @@ pub fn synthetic(d_count: usize, g_count: usize, k_count: usize, values: &[f64])
             .collect(),
         districts,
         majority: total / 2 + 1,
+        seat_rule: SeatRule::Winner,
+        threshold: 0.0,
         presets: vec![],
         cells,
         poll: None,

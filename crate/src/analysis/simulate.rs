@@ -306,6 +306,10 @@ impl BlockResult {
 /// lead (best first, equal leads in GeoJSON order, a total order), the district at which
 /// the seats first reach the majority.
 pub fn tipping_point_fast(ds: &Dataset, t: &Tally, order: &mut Vec<(f64, usize)>) -> Option<usize> {
+    // Defined for winner-takes-all districts only (`tipping::why_none`).
+    if ds.has_proportional() {
+        return None;
+    }
     let leader = seat_leader(t)?;
     let majority = u64::from(ds.majority);
     if ds.total_seats() < majority {

@@ -1,6 +1,10 @@
 //! The tipping-point district (SPEC 2.2): order districts by the seat-leading party's
 //! margin over its nearest rival, best first, and add up seats until the majority.
 //!
+//! It is defined only when every district's winner takes all its seats: where some
+//! district shares its seats proportionally, no single district turns the majority, and
+//! [`tipping_point`] gives `None` ([`why_none`] says why, for the reader).
+//!
 //! ```
 //! use stratamap::{analysis::tipping::tipping_point, model::tally::{tally, Shifts}};
 //! let ds = stratamap::testdata::two_groups_no_poll();
@@ -38,7 +42,23 @@ fn lead(t: &Tally, d: usize, leader: usize) -> f64 {
     }
 }
 
-/// The tipping-point district, or `None` where the seats cannot reach the majority.
+/// Why a dataset has no tipping point whatever the scenario, or `None` when it can
+/// have one.
+///
+/// ```
+/// use stratamap::analysis::tipping::why_none;
+/// let ds = stratamap::testdata::two_groups_no_poll();
+/// assert_eq!(why_none(&ds), None);
+/// ```
+pub fn why_none(ds: &Dataset) -> Option<&'static str> {
+    ds.has_proportional().then_some(
+        "No tipping point: it is defined only where each district's winner takes all its \
+         seats, and this dataset shares some districts' seats proportionally.",
+    )
+}
+
+/// The tipping-point district, or `None` where the seats cannot reach the majority or
+/// some district is proportional ([`why_none`]).
 pub fn tipping_point(ds: &Dataset, t: &Tally) -> Option<usize> {
     let mut order = Vec::new();
     tipping_point_with(ds, t, &mut order)
@@ -46,6 +66,9 @@ pub fn tipping_point(ds: &Dataset, t: &Tally) -> Option<usize> {
 
 /// [`tipping_point`] reusing a buffer (for simulations).
 pub fn tipping_point_with(ds: &Dataset, t: &Tally, order: &mut Vec<(f64, usize)>) -> Option<usize> {
+    if ds.has_proportional() {
+        return None;
+    }
     let leader = seat_leader(t)?;
     if ds.total_seats() < u64::from(ds.majority) {
         return None;

@@ -1,6 +1,7 @@
 //! The districts' GeoJSON (SPEC 1.2), read with the `geojson` crate.
 
-use super::{is_valid_id, shown_value, District};
+use super::seat_rule::{parse_rule, parse_threshold};
+use super::{is_valid_id, shown_value, District, SeatRule};
 use crate::error::{shown, Collector, Location};
 use geo::{Coord, LineString, MultiPolygon, Polygon};
 use geojson::{Feature, GeometryValue, PolygonType};
@@ -9,7 +10,13 @@ use serde_json::Value;
 /// Largest number of seats one district may elect.
 const MAX_SEATS: u64 = 100_000;
 
-pub(crate) fn parse(file: &str, text: &str) -> Result<Vec<District>, Collector> {
+/// Read the districts; `defaults` are the manifest's seat rule and threshold, which a
+/// district's own `seat_rule` and `threshold` properties override.
+pub(crate) fn parse(
+    file: &str,
+    text: &str,
+    defaults: (SeatRule, f64),
+) -> Result<Vec<District>, Collector> {
     let mut c = Collector::new(file);
     let root: Value = match serde_json::from_str(super::without_bom(text)) {
         Ok(v) => v,
@@ -121,6 +128,31 @@ pub(crate) fn parse(file: &str, text: &str) -> Result<Vec<District>, Collector> 
                 None
             }
         };
+        let seat_rule = match props.get("seat_rule") {
+            None | Some(Value::Null) => Some(defaults.0),
+            Some(v) => parse_rule(v)
+                .map_err(|m| c.push(at.clone(), Some("seat_rule"), m))
+                .ok(),
+        };
+        let threshold = match props.get("threshold") {
+            None | Some(Value::Null) => Some(defaults.1),
+            Some(v) => match parse_threshold(v) {
+                Ok(_) if seat_rule == Some(SeatRule::Winner) => {
+                    c.push(
+                        at.clone(),
+                        Some("threshold"),
+                        "a threshold applies only under a proportional seat rule \
+                         (\"dhondt\", \"sainte_lague\" or \"hare\"); this district's rule is \"winner\"",
+                    );
+                    None
+                }
+                Ok(t) => Some(t),
+                Err(m) => {
+                    c.push(at.clone(), Some("threshold"), m);
+                    None
+                }
+            },
+        };
         let shape = match feature.geometry.map(|g| g.value) {
             Some(GeometryValue::Polygon { coordinates }) => {
                 polygon(&coordinates, &at, &mut c).map(|p| MultiPolygon(vec![p]))
@@ -156,8 +188,15 @@ pub(crate) fn parse(file: &str, text: &str) -> Result<Vec<District>, Collector> 
                 None
             }
         };
-        if let (Some(id), Some(name), Some(seats), Some(region), Some(shape)) =
-            (id, name, seats, region, shape)
+        if let (
+            Some(id),
+            Some(name),
+            Some(seats),
+            Some(region),
+            Some(shape),
+            Some(seat_rule),
+            Some(threshold),
+        ) = (id, name, seats, region, shape, seat_rule, threshold)
         {
             out.push(District {
                 id,
@@ -165,6 +204,8 @@ pub(crate) fn parse(file: &str, text: &str) -> Result<Vec<District>, Collector> 
                 seats,
                 region,
                 shape,
+                seat_rule,
+                threshold,
             });
         }
     }
@@ -232,7 +273,12 @@ fn polygon(rings: &PolygonType, at: &Location, c: &mut Collector) -> Option<Poly
 
 #[cfg(test)]
 mod tests {
-    use super::parse;
+    use super::{parse as parse_with, SeatRule};
+    use crate::error::Collector;
+
+    fn parse(file: &str, text: &str) -> Result<Vec<super::District>, Collector> {
+        parse_with(file, text, (SeatRule::Winner, 0.0))
+    }
 
     fn lines(text: &str) -> Vec<String> {
         match parse("d.geojson", text) {
@@ -287,6 +333,45 @@ mod tests {
         assert!(l
             .iter()
             .any(|s| s.starts_with("d.geojson feature 3, field geometry: expected a Polygon")));
+    }
+
+    #[test]
+    fn seat_rules_override_the_manifest() {
+        let text = format!(
+            r#"{{"type":"FeatureCollection","features":[
+              {{"type":"Feature","properties":{{"id":"a","name":"A","seats":5}},"geometry":{SQUARE}}},
+              {{"type":"Feature","properties":{{"id":"b","name":"B","seat_rule":"winner"}},"geometry":{SQUARE}}},
+              {{"type":"Feature","properties":{{"id":"c","name":"C","seats":4,"seat_rule":"hare","threshold":3.5}},"geometry":{SQUARE}}}]}}"#
+        );
+        let d = parse_with("d.geojson", &text, (SeatRule::Dhondt, 5.0))
+            .ok()
+            .unwrap();
+        assert_eq!((d[0].seat_rule, d[0].threshold), (SeatRule::Dhondt, 5.0));
+        assert_eq!(d[1].seat_rule, SeatRule::Winner);
+        assert_eq!((d[2].seat_rule, d[2].threshold), (SeatRule::Hare, 3.5));
+    }
+
+    #[test]
+    fn bad_seat_rules_and_thresholds_are_named() {
+        let text = format!(
+            r#"{{"type":"FeatureCollection","features":[
+              {{"type":"Feature","properties":{{"id":"a","name":"A","seat_rule":"d'hondt"}},"geometry":{SQUARE}}},
+              {{"type":"Feature","properties":{{"id":"b","name":"B","seat_rule":"dhondt","threshold":"5%"}},"geometry":{SQUARE}}},
+              {{"type":"Feature","properties":{{"id":"c","name":"C","threshold":5}},"geometry":{SQUARE}}}]}}"#
+        );
+        let l = lines(&text);
+        assert!(
+            l.contains(&r#"d.geojson feature 0, field seat_rule: expected "winner", "dhondt", "sainte_lague" or "hare", found "d'hondt""#.to_string()),
+            "{l:?}"
+        );
+        assert!(
+            l.contains(&r#"d.geojson feature 1, field threshold: expected a percentage of the district's votes from 0 to 50, found "5%""#.to_string()),
+            "{l:?}"
+        );
+        assert!(
+            l.iter().any(|s| s.starts_with("d.geojson feature 2, field threshold: a threshold applies only under a proportional seat rule")),
+            "{l:?}"
+        );
     }
 
     #[test]

@@ -1,6 +1,7 @@
 //! The manifest, `dataset.json` (SPEC 1.1).
 
-use super::{is_valid_id, shown_value, Group, Party, Preset, MANIFEST};
+use super::seat_rule::{parse_rule, parse_threshold};
+use super::{is_valid_id, shown_value, Group, Party, Preset, SeatRule, MANIFEST};
 use crate::error::{shown, Collector, Location};
 use serde::Serialize;
 use serde_json::{Map, Value};
@@ -21,6 +22,8 @@ pub(crate) struct Manifest {
     pub groups: Vec<Group>,
     pub files: Files,
     pub majority: Option<u32>,
+    pub seat_rule: SeatRule,
+    pub threshold: f64,
     pub presets: Vec<Preset>,
 }
 
@@ -326,6 +329,19 @@ pub(crate) fn parse(text: &str) -> Result<Manifest, Collector> {
         },
     };
 
+    let seat_rule = match o.get("seat_rule") {
+        None | Some(Value::Null) => Some(SeatRule::Winner),
+        Some(v) => parse_rule(v)
+            .map_err(|m| c.push(Location::File, Some("seat_rule"), m))
+            .ok(),
+    };
+    let threshold = match o.get("threshold") {
+        None | Some(Value::Null) => Some(0.0),
+        Some(v) => parse_threshold(v)
+            .map_err(|m| c.push(Location::File, Some("threshold"), m))
+            .ok(),
+    };
+
     let mut presets = Vec::new();
     match o.get("presets") {
         None | Some(Value::Null) => {}
@@ -356,19 +372,27 @@ pub(crate) fn parse(text: &str) -> Result<Manifest, Collector> {
         Some(_) => c.push(Location::File, Some("presets"), "expected an array"),
     }
 
-    match (title, source, files, axis, majority) {
-        (Some(title), Some(source), Some(files), Some(axis), Some(majority)) if c.is_empty() => {
-            Ok(Manifest {
-                title,
-                source,
-                parties,
-                axis,
-                groups,
-                files,
-                majority,
-                presets,
-            })
-        }
+    match (title, source, files, axis, majority, seat_rule, threshold) {
+        (
+            Some(title),
+            Some(source),
+            Some(files),
+            Some(axis),
+            Some(majority),
+            Some(seat_rule),
+            Some(threshold),
+        ) if c.is_empty() => Ok(Manifest {
+            title,
+            source,
+            parties,
+            axis,
+            groups,
+            files,
+            majority,
+            seat_rule,
+            threshold,
+            presets,
+        }),
         _ => Err(c),
     }
 }
@@ -405,6 +429,27 @@ mod tests {
             .any(|l| l.contains("field groups[0].id") && l.contains("reserved")));
         assert!(p.iter().any(|l| l.contains("field majority")));
         assert!(p.iter().all(|l| l.starts_with("dataset.json")));
+    }
+
+    #[test]
+    fn seat_rule_and_threshold() {
+        let base = r##"{"title":"t","source":"s","districts":"d","electorate":"e",
+            "parties":[{"id":"a","name":"x","color":"#000000"},{"id":"b","name":"y","color":"#FFFFFF"}],
+            "groups":[{"id":"g","name":"g"}] MORE}"##;
+        let m = parse(&base.replace("MORE", "")).ok().unwrap();
+        assert_eq!((m.seat_rule, m.threshold), (SeatRule::Winner, 0.0));
+        let m = parse(&base.replace("MORE", r#","seat_rule":"sainte_lague","threshold":4"#))
+            .ok()
+            .unwrap();
+        assert_eq!((m.seat_rule, m.threshold), (SeatRule::SainteLague, 4.0));
+        let p = problems(&base.replace("MORE", r#","seat_rule":"pr","threshold":-2"#));
+        assert_eq!(
+            p,
+            vec![
+                r#"dataset.json, field seat_rule: expected "winner", "dhondt", "sainte_lague" or "hare", found "pr""#,
+                "dataset.json, field threshold: expected a percentage of the district's votes from 0 to 50, found -2",
+            ]
+        );
     }
 
     #[test]

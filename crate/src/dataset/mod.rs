@@ -9,6 +9,7 @@ mod electorate;
 mod manifest;
 mod number;
 mod poll;
+mod seat_rule;
 mod table;
 
 use crate::error::{plain, shown, DatasetError, Location, Problem, SHOWN_CHARS};
@@ -18,6 +19,7 @@ pub use electorate::MAX_TOTAL_ELIGIBLE;
 pub use manifest::{file_name_problem, manifest_files, Files, MAX_FILE_NAME_CHARS};
 pub(crate) use number::parse_number;
 pub use number::round_text;
+pub use seat_rule::{SeatRule, MAX_THRESHOLD};
 
 /// A party on the ballot.
 #[derive(Debug, Clone, PartialEq)]
@@ -43,6 +45,11 @@ pub struct District {
     pub seats: u32,
     pub region: Option<String>,
     pub shape: MultiPolygon<f64>,
+    /// How its seats are shared: its own `seat_rule`, else the manifest's.
+    pub seat_rule: SeatRule,
+    /// Percent of its votes below which a party gets no seat under a proportional rule:
+    /// its own `threshold`, else the manifest's.
+    pub threshold: f64,
 }
 
 /// A named scenario shipped with the dataset.
@@ -95,6 +102,9 @@ pub struct Dataset {
     pub districts: Vec<District>,
     /// Seats needed for a majority.
     pub majority: u32,
+    /// The manifest's seat rule and threshold (each district may set its own).
+    pub seat_rule: SeatRule,
+    pub threshold: f64,
     pub presets: Vec<Preset>,
     pub cells: Cells,
     pub poll: Option<Poll>,
@@ -161,7 +171,11 @@ impl Dataset {
         let party_ids: Vec<&str> = m.parties.iter().map(|p| p.id.as_str()).collect();
         let group_ids: Vec<&str> = m.groups.iter().map(|g| g.id.as_str()).collect();
 
-        let districts = districts::parse(&m.files.districts, src.districts);
+        let districts = districts::parse(
+            &m.files.districts,
+            src.districts,
+            (m.seat_rule, m.threshold),
+        );
         let districts = match districts {
             Ok(d) => Some(d),
             Err(c) => {
@@ -228,6 +242,8 @@ impl Dataset {
             groups: m.groups,
             districts,
             majority,
+            seat_rule: m.seat_rule,
+            threshold: m.threshold,
             presets: m.presets,
             cells,
             poll,
@@ -264,6 +280,12 @@ impl Dataset {
     /// Total seats over all districts.
     pub fn total_seats(&self) -> u64 {
         self.districts.iter().map(|d| u64::from(d.seats)).sum()
+    }
+    /// Whether any district shares its seats by a proportional rule (then the tally
+    /// keeps every district's seat split, the CSV has `seats_<party>` columns, and
+    /// there is no tipping point).
+    pub fn has_proportional(&self) -> bool {
+        self.districts.iter().any(|d| d.seat_rule.is_proportional())
     }
     pub fn party_index(&self, id: &str) -> Option<usize> {
         self.parties.iter().position(|p| p.id == id)

@@ -7,8 +7,8 @@ use crate::analysis::curve::{seats_votes, Curve};
 use crate::analysis::moe;
 use crate::analysis::plane::{shift_plane, PlanePoint};
 use crate::analysis::reach::{self, Reach};
-use crate::analysis::tipping::tipping_point;
-use crate::dataset::Dataset;
+use crate::analysis::tipping::{tipping_point, why_none};
+use crate::dataset::{Dataset, SeatRule};
 use crate::model::scenario::{Message, Scenario, Start, MAX_POINTS};
 use crate::model::tally::{cell, tally, tally_into, Shifts, Tally};
 use crate::output::map::{self, MapLayout, SvgOptions};
@@ -37,6 +37,14 @@ pub struct Summary {
     /// Votes cast as a percent of the eligible.
     pub turnout: f64,
     pub tipping: Option<usize>,
+    /// Why there is no tipping point whatever the scenario (proportional districts).
+    pub tipping_note: Option<&'static str>,
+    /// Seats of proportional districts where no party reached the threshold.
+    pub unfilled_seats: u64,
+    /// Districts whose last seat went by the tie rule (more votes, then the earlier party).
+    pub last_seat_ties: Vec<usize>,
+    /// Whether some district shares its seats proportionally.
+    pub proportional: bool,
     /// Districts whose winner differs from the starting point's.
     pub changed: Vec<usize>,
     /// Group weights, percent.
@@ -69,6 +77,16 @@ pub struct DistrictDetail {
     pub name: String,
     pub seats: u32,
     pub region: Option<String>,
+    /// The district's seat rule (`winner`, `dhondt`, `sainte_lague`, `hare`), a name for
+    /// readers, and its threshold in percent (proportional rules only).
+    pub seat_rule: SeatRule,
+    pub seat_rule_name: &'static str,
+    pub threshold: Option<f64>,
+    /// Seats won per party, manifest order (all to the winner under the winner rule;
+    /// none on a tie).
+    pub seats_won: Vec<u32>,
+    /// The last seat went by the tie rule.
+    pub last_seat_tie: bool,
     #[serde(serialize_with = "index_or_minus_one")]
     pub winner: Option<usize>,
     #[serde(serialize_with = "index_or_minus_one")]
@@ -252,6 +270,10 @@ impl Engine {
                 0.0
             },
             tipping: tipping_point(&self.ds, t),
+            tipping_note: why_none(&self.ds),
+            unfilled_seats: t.unfilled_seats,
+            last_seat_ties: t.last_seat_ties.clone(),
+            proportional: self.ds.has_proportional(),
             changed: (0..self.ds.district_count())
                 .filter(|&d| t.winner[d] != start.winner[d])
                 .collect(),
@@ -288,6 +310,25 @@ impl Engine {
             name: district.name.clone(),
             seats: district.seats,
             region: district.region.clone(),
+            seat_rule: district.seat_rule,
+            seat_rule_name: district.seat_rule.name(),
+            threshold: district
+                .seat_rule
+                .is_proportional()
+                .then_some(district.threshold),
+            seats_won: match t.district_seats(d) {
+                Some(split) => split.to_vec(),
+                None => (0..self.ds.party_count())
+                    .map(|k| {
+                        if t.winner[d] == Some(k) {
+                            district.seats
+                        } else {
+                            0
+                        }
+                    })
+                    .collect(),
+            },
+            last_seat_tie: t.last_seat_ties.contains(&d),
             winner: t.winner[d],
             runner_up: t.runner_up[d],
             margin: t.margin[d],
@@ -430,6 +471,13 @@ impl Engine {
             ),
         };
         let mut footer = vec![seats_line];
+        if summary.proportional {
+            footer.push(format!("Seat rules: {}.", seat_rules(ds)));
+        }
+        footer.extend(seat_notes(ds, &summary).into_iter().map(|n| n + "."));
+        if let Some(n) = summary.tipping_note {
+            footer.push(n.to_string());
+        }
         footer.extend(words::scenario_sentences(ds, &self.scenario));
         if let Some(m) = &summary.shares_moe {
             let parts: Vec<String> = ds
@@ -467,6 +515,62 @@ impl Engine {
             },
         )
     }
+}
+
+/// How the districts share their seats, in a phrase: "winner takes all in 1 district,
+/// D'Hondt in 2 districts (threshold 5%)".
+pub fn seat_rules(ds: &Dataset) -> String {
+    let mut parts: Vec<String> = Vec::new();
+    for rule in SeatRule::ALL {
+        let of_rule: Vec<_> = ds
+            .districts
+            .iter()
+            .filter(|d| d.seat_rule == rule)
+            .collect();
+        if of_rule.is_empty() {
+            continue;
+        }
+        let n = of_rule.len();
+        let mut part = format!(
+            "{} in {n} district{}",
+            rule.name(),
+            if n == 1 { "" } else { "s" }
+        );
+        if rule.is_proportional() {
+            let mut thresholds: Vec<f64> = of_rule.iter().map(|d| d.threshold).collect();
+            thresholds.sort_by(f64::total_cmp);
+            thresholds.dedup();
+            let list: Vec<String> = thresholds.iter().map(|t| format!("{t}%")).collect();
+            part += &format!(" (threshold {})", list.join(" or "));
+        }
+        parts.push(part);
+    }
+    parts.join(", ")
+}
+
+/// Notes on seats that a reader needs beside the totals: seats nobody won for want of
+/// votes over the threshold, and last seats decided by the tie rule.
+pub fn seat_notes(ds: &Dataset, s: &Summary) -> Vec<String> {
+    let mut out = Vec::new();
+    if s.unfilled_seats > 0 {
+        out.push(format!(
+            "{} seat{} unfilled: no party reached the threshold there",
+            s.unfilled_seats,
+            if s.unfilled_seats == 1 { "" } else { "s" }
+        ));
+    }
+    if !s.last_seat_ties.is_empty() {
+        let names: Vec<&str> = s
+            .last_seat_ties
+            .iter()
+            .filter_map(|&d| ds.districts.get(d).map(|x| x.name.as_str()))
+            .collect();
+        out.push(format!(
+            "The last seat was level and went to the party with more votes (then the one listed first) in: {}",
+            names.join(", ")
+        ));
+    }
+    out
 }
 
 fn clamp_points(v: f64) -> f64 {
@@ -519,5 +623,33 @@ mod tests {
         e.set_start(true);
         assert!(e.summary().shares_moe.is_some());
         assert!(e.district(0).unwrap().moe.is_some());
+        let d = e.district(1).unwrap();
+        assert_eq!(d.seats_won, vec![2, 0, 0]);
+        assert_eq!((d.seat_rule, d.threshold), (SeatRule::Winner, None));
+        assert!(e.summary().tipping_note.is_none());
+    }
+
+    #[test]
+    fn proportional_summary_and_detail() {
+        let e = Engine::new(crate::testdata::proportional());
+        let s = e.summary();
+        assert_eq!(s.seats, vec![3, 4, 0]);
+        assert_eq!(s.majority_party, Some(1));
+        assert_eq!(s.tipping, None);
+        assert!(s.tipping_note.unwrap().contains("proportionally"));
+        assert!(s.proportional);
+        let d = e.district(1).unwrap();
+        assert_eq!(d.seats_won, vec![3, 2, 0]);
+        assert_eq!(d.seat_rule, SeatRule::Dhondt);
+        assert_eq!(d.threshold, Some(5.0));
+        assert_eq!(e.district(0).unwrap().seats_won, vec![0, 1, 0]);
+        // The standalone map says there is no tipping point and shows the seats.
+        let svg = e.render_svg();
+        assert!(svg.contains("Seats: Alder 3, Birch 4, Cedar 0"), "{svg}");
+        assert!(svg.contains("No tipping point"), "{svg}");
+        assert_eq!(
+            seat_rules(e.dataset()),
+            "winner takes all in 1 district, D'Hondt in 2 districts (threshold 5%)"
+        );
     }
 }

@@ -3,4 +3,5 @@
 //! Depends on [`crate::dataset`] only.
 
 pub mod scenario;
+pub mod seats;
 pub mod tally;

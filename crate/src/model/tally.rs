@@ -13,8 +13,9 @@
 //! assert_eq!(t.majority_party, Some(0));
 //! ```
 
-use crate::dataset::Dataset;
+use crate::dataset::{Dataset, District};
 use crate::model::scenario::Scenario;
+use crate::model::seats::allocate;
 
 /// Most parties a dataset may have (SPEC 1.1).
 pub const MAX_PARTIES: usize = 12;
@@ -159,8 +160,19 @@ pub struct Tally {
     pub runner_up: Vec<Option<usize>>,
     /// (first − second) / T_d × 100.
     pub margin: Vec<f64>,
+    /// Seats per party, summed over districts.
     pub seats: Vec<u64>,
+    /// Seats of districts tied at the top (winner rule) or where nobody voted.
     pub tied_seats: u64,
+    /// Seats per district and party, `d * parties + k`, under each district's seat rule.
+    /// Kept only when some district is proportional ([`Dataset::has_proportional`]);
+    /// empty otherwise (a winner district's seats all go to its winner).
+    pub seat_split: Vec<u32>,
+    /// Districts whose last seat was decided by the tie rule (more votes, then the
+    /// earlier party), in GeoJSON order.
+    pub last_seat_ties: Vec<usize>,
+    /// Seats of proportional districts where no party reached the threshold.
+    pub unfilled_seats: u64,
     pub majority_party: Option<usize>,
     /// Σ_d V_dk.
     pub national_votes: Vec<f64>,
@@ -184,6 +196,12 @@ impl Tally {
     pub fn district_votes(&self, d: usize) -> &[f64] {
         let k = self.national_votes.len();
         &self.votes[d * k..(d + 1) * k]
+    }
+
+    /// Seats of district `d` per party, when some district is proportional.
+    pub fn district_seats(&self, d: usize) -> Option<&[u32]> {
+        let k = self.national_votes.len();
+        self.seat_split.get(d * k..(d + 1) * k)
     }
 
     /// Total votes cast nationwide.
@@ -277,6 +295,12 @@ fn prepare(ds: &Dataset, out: &mut Tally) {
     out.seats.clear();
     out.seats.resize(k_count, 0);
     out.tied_seats = 0;
+    out.seat_split.clear();
+    if ds.has_proportional() {
+        out.seat_split.resize(d_count * k_count, 0);
+    }
+    out.last_seat_ties.clear();
+    out.unfilled_seats = 0;
     out.turnout_clamped = 0;
     out.margin_limited = 0;
     out.majority_party = None;
@@ -493,12 +517,55 @@ fn finish_district(ds: &Dataset, d: usize, acc: &[f64], eligible: f64, out: &mut
     let lead = votes[f] - votes[s];
     out.runner_up[d] = Some(s);
     out.margin[d] = if cast > 0.0 { lead * 100.0 / cast } else { 0.0 };
-    let seats = u64::from(ds.districts[d].seats);
-    if cast > 0.0 && lead > 1e-9 * cast {
+    let district = &ds.districts[d];
+    let leads = cast > 0.0 && lead > 1e-9 * cast;
+    if leads {
         out.winner[d] = Some(f);
+    }
+    if district.seat_rule.is_proportional() {
+        share_seats(district, d, k_count, out);
+        return;
+    }
+    let seats = u64::from(district.seats);
+    if leads {
         out.seats[f] += seats;
+        if let Some(split) = out.seat_split.get_mut(d * k_count + f) {
+            *split = district.seats;
+        }
     } else {
         out.tied_seats += seats;
+    }
+}
+
+/// District `d`'s seats under its proportional rule, from its votes in `out`.
+// Kept out of line: winner-takes-all districts never come here.
+#[inline(never)]
+fn share_seats(district: &District, d: usize, k_count: usize, out: &mut Tally) {
+    let range = d * k_count..(d + 1) * k_count;
+    let (Some(votes), Some(split)) = (out.votes.get(range.clone()), out.seat_split.get_mut(range))
+    else {
+        return;
+    };
+    let a = allocate(
+        district.seat_rule,
+        district.seats,
+        votes,
+        district.threshold,
+        split,
+    );
+    if a.allocated == 0 {
+        if votes.iter().sum::<f64>() > 0.0 {
+            out.unfilled_seats += u64::from(district.seats);
+        } else {
+            out.tied_seats += u64::from(district.seats);
+        }
+        return;
+    }
+    for (total, &s) in out.seats.iter_mut().zip(split.iter()) {
+        *total += u64::from(s);
+    }
+    if a.last_seat_tie {
+        out.last_seat_ties.push(d);
     }
 }
 
@@ -639,6 +706,76 @@ mod tests {
         close(sh.margin[0], w[0]);
         let base = Scenario::parse_strict("start=baseline&margin=young:1", &ds).unwrap();
         assert_eq!(Shifts::from_scenario(&ds, &base).margin, vec![1.0, 0.0]);
+    }
+
+    /// The proportional test dataset at baseline, by hand (votes as in `baseline_by_hand`):
+    /// Xe (winner rule) goes to b. Ypo, 5 seats by D'Hondt, threshold 5% of 1250 = 62.5
+    /// (c's 125 is in): quotients a 580, 290, 193.3; b 545, 272.5, 181.7; c 125: the
+    /// five highest are 580 545 290 272.5 193.3: a 3, b 2. Zu, 1 seat by D'Hondt,
+    /// threshold 4.75 of 95 votes: a (1.9) and c (2.85) are out, b takes it.
+    /// Seats a 3, b 4 of 7; majority 4: b.
+    #[test]
+    fn proportional_by_hand() {
+        let ds = crate::testdata::proportional();
+        let t = tally(&ds, &Shifts::zero(&ds));
+        assert_eq!(t.seats, vec![3, 4, 0]);
+        assert_eq!(t.seat_split, vec![0, 1, 0, 3, 2, 0, 0, 1, 0]);
+        assert_eq!(t.district_seats(1), Some(&[3, 2, 0][..]));
+        assert_eq!(t.majority_party, Some(1));
+        assert_eq!(t.winner, vec![Some(1), Some(0), Some(1)]);
+        assert_eq!((t.tied_seats, t.unfilled_seats), (0, 0));
+        assert!(t.last_seat_ties.is_empty());
+        // The reference tally says the same.
+        let mut r = Tally::default();
+        tally_reference(&ds, &Shifts::zero(&ds), 0.0, None, &mut r);
+        assert_eq!(
+            (&r.seats, &r.seat_split, &r.winner, r.majority_party),
+            (&t.seats, &t.seat_split, &t.winner, t.majority_party)
+        );
+        // The same district by largest remainders: quota 1250/5 = 250: a 2.32, b 2.18,
+        // c 0.5: 2 + 2 + 0, the last seat to c's 0.5.
+        let mut hare = ds.clone();
+        hare.districts[1].seat_rule = crate::dataset::SeatRule::Hare;
+        let t = tally(&hare, &Shifts::zero(&hare));
+        assert_eq!(t.district_seats(1), Some(&[2, 2, 1][..]));
+        // With a 10.5% threshold c (10%) is out: quota 1125/5 = 225: a 2.58, b 2.42:
+        // 2 + 2, the last seat to a.
+        hare.districts[1].threshold = 10.5;
+        let t = tally(&hare, &Shifts::zero(&hare));
+        assert_eq!(t.district_seats(1), Some(&[3, 2, 0][..]));
+        assert_eq!(t.seats, vec![3, 4, 0]);
+    }
+
+    /// Winner-only datasets keep no seat split; a threshold nobody reaches leaves seats
+    /// unfilled; a level last seat is reported.
+    #[test]
+    fn seat_split_only_when_proportional() {
+        let ds = two_groups_no_poll();
+        let t = tally(&ds, &Shifts::zero(&ds));
+        assert!(t.seat_split.is_empty());
+        assert_eq!(t.district_seats(0), None);
+
+        let mut ds = crate::testdata::proportional();
+        // Zu's 95 votes: b has 95%; a threshold of 50 in Ypo leaves everyone out.
+        ds.districts[1].threshold = 50.0;
+        let t = tally(&ds, &Shifts::zero(&ds));
+        assert_eq!(t.unfilled_seats, 5);
+        assert_eq!(t.district_seats(1), Some(&[0, 0, 0][..]));
+        assert_eq!(t.seats, vec![0, 2, 0]);
+
+        // Ypo with 2 seats under Sainte-Laguë after a shift that levels a and b:
+        // margin=all:-2.8 moves 1250·0.014 = 17.5 votes: a 562.5, b 562.5: the first
+        // seat is a (level, earlier party: a tie for a seat that is not the last), the
+        // second b's 562.5 against a's 187.5.
+        let mut ds = crate::testdata::proportional();
+        ds.districts[1].seats = 1;
+        ds.districts[1].seat_rule = crate::dataset::SeatRule::SainteLague;
+        let s = Scenario::parse_strict("margin=all:-2.8", &ds).unwrap();
+        let t = tally(&ds, &Shifts::from_scenario(&ds, &s));
+        assert_eq!(t.winner[1], None, "level on votes");
+        assert_eq!(t.district_seats(1), Some(&[1, 0, 0][..]));
+        assert_eq!(t.last_seat_ties, vec![1]);
+        assert_eq!(t.tied_seats, 0);
     }
 
     #[test]
