@@ -10,6 +10,19 @@ use serde_json::Value;
 /// Largest number of seats one district may elect.
 const MAX_SEATS: u64 = 100_000;
 
+/// Largest districts file opened, in bytes (64 MiB). A map that size takes several
+/// seconds to lay out and draw in a browser; anything larger should be simplified
+/// first (to about 100 m, which no screen shows) rather than leave the page frozen.
+pub const MAX_GEOJSON_BYTES: usize = 64 << 20;
+
+/// Most districts in one dataset: past this the map's one element per district no
+/// longer repaints at the speed of a slider.
+pub const MAX_DISTRICTS: usize = 20_000;
+
+fn megabytes(bytes: usize) -> String {
+    format!("{:.1} MB", bytes as f64 / 1e6)
+}
+
 /// Read the districts; `defaults` are the manifest's seat rule and threshold, which a
 /// district's own `seat_rule` and `threshold` properties override.
 pub(crate) fn parse(
@@ -18,6 +31,19 @@ pub(crate) fn parse(
     defaults: (SeatRule, f64),
 ) -> Result<Vec<District>, Collector> {
     let mut c = Collector::new(file);
+    if text.len() > MAX_GEOJSON_BYTES {
+        c.push(
+            Location::File,
+            None,
+            format!(
+                "the file is {}; at most {} of GeoJSON can be opened. Simplify the boundaries \
+                 first (to about 100 m, e.g. with a GIS tool), keeping neighbours' shared edges",
+                megabytes(text.len()),
+                megabytes(MAX_GEOJSON_BYTES)
+            ),
+        );
+        return Err(c);
+    }
     let root: Value = match serde_json::from_str(super::without_bom(text)) {
         Ok(v) => v,
         Err(e) => {
@@ -41,6 +67,17 @@ pub(crate) fn parse(
             return Err(c);
         }
     };
+    if features.len() > MAX_DISTRICTS {
+        c.push(
+            Location::File,
+            Some("features"),
+            format!(
+                "{} districts; at most {MAX_DISTRICTS} can be shown on one map",
+                features.len()
+            ),
+        );
+        return Err(c);
+    }
     if features.is_empty() {
         c.push(
             Location::File,
@@ -378,5 +415,25 @@ mod tests {
     fn rejects_non_collections() {
         assert!(lines(SQUARE)[0].contains("FeatureCollection"));
         assert!(lines("[").len() == 1);
+    }
+
+    #[test]
+    fn oversized_maps_are_refused_with_the_limit_named() {
+        // Padding after the JSON: the size is checked before anything is parsed.
+        let big = format!("{{}}{}", " ".repeat(super::MAX_GEOJSON_BYTES));
+        let l = lines(&big);
+        assert_eq!(l.len(), 1, "{l:?}");
+        assert!(
+            l[0].contains("67.1 MB") && l[0].contains("at most 67.1 MB"),
+            "{l:?}"
+        );
+        let feature = r#"{"type":"Feature","properties":{"id":"a","name":"A"},"geometry":null}"#;
+        let many = format!(
+            r#"{{"type":"FeatureCollection","features":[{}]}}"#,
+            vec![feature; super::MAX_DISTRICTS + 1].join(",")
+        );
+        let l = lines(&many);
+        assert_eq!(l.len(), 1, "{l:?}");
+        assert!(l[0].contains("20001 districts; at most 20000"), "{l:?}");
     }
 }

@@ -15,6 +15,7 @@ mod table;
 use crate::error::{plain, shown, DatasetError, Location, Problem, SHOWN_CHARS};
 use geo::MultiPolygon;
 
+pub use districts::{MAX_DISTRICTS, MAX_GEOJSON_BYTES};
 pub use electorate::MAX_TOTAL_ELIGIBLE;
 pub use manifest::{file_name_problem, manifest_files, Files, MAX_FILE_NAME_CHARS};
 pub(crate) use number::parse_number;

@@ -1,7 +1,7 @@
 //! Large synthetic datasets for benchmarks: same format as the demo, simple shapes
 //! (a jittered octagon in each cell of a lattice), any number of districts, groups and parties.
 
-use geo::{Coord, LineString, MultiPolygon, Polygon};
+use geo::{BoundingRect, Coord, LineString, MultiPolygon, Polygon};
 use rand::{RngExt, SeedableRng};
 use rand_pcg::Pcg64;
 
@@ -20,11 +20,23 @@ const PALETTE: [&str; 12] = [
     "#5fb0a0", "#9a9a9a", "#b5762a", "#3f3f5f",
 ];
 
+/// How the benchmark's districts are drawn.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, clap::ValueEnum)]
+pub enum Shapes {
+    /// A jittered octagon in each cell of a lattice (8 vertices, no shared edges).
+    Lattice,
+    /// Voronoi cells with irregular shared edges ([`crate::irregular`]).
+    Irregular,
+}
+
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub struct BenchSize {
     pub districts: usize,
     pub groups: usize,
     pub parties: usize,
+    pub shapes: Shapes,
+    /// About this many vertices per district (irregular shapes only).
+    pub vertices: usize,
 }
 
 pub fn build(seed: u64, size: BenchSize) -> Result<Dataset, String> {
@@ -39,7 +51,6 @@ pub fn build(seed: u64, size: BenchSize) -> Result<Dataset, String> {
     }
     let mut rng = Pcg64::seed_from_u64(seed);
     let cols = ((size.districts as f64 * 1.6).sqrt().ceil() as usize).max(1);
-    let rows_total = size.districts.div_ceil(cols);
     let cell = 0.04;
     let (lon0, lat0) = (-160.0, -25.0);
 
@@ -57,32 +68,56 @@ pub fn build(seed: u64, size: BenchSize) -> Result<Dataset, String> {
         })
         .collect();
 
-    let mut snapper = Snapper::new();
+    let zones = 8;
+    let shapes: Vec<MultiPolygon<f64>> = match size.shapes {
+        Shapes::Lattice => {
+            let mut snapper = Snapper::new();
+            let mut shapes = Vec::with_capacity(size.districts);
+            for d in 0..size.districts {
+                let (col, row) = (d % cols, d / cols);
+                let centre = Coord {
+                    x: lon0 + (col as f64 + 0.5) * cell + rng.random_range(-0.003..0.003),
+                    y: lat0 - (row as f64 + 0.5) * cell + rng.random_range(-0.003..0.003),
+                };
+                let ring: Vec<Coord<f64>> = (0..8)
+                    .map(|i| {
+                        let theta = std::f64::consts::TAU * f64::from(i) / 8.0;
+                        let r = cell * rng.random_range(0.3..0.42);
+                        Coord {
+                            x: centre.x + r * theta.cos(),
+                            y: centre.y + r * theta.sin(),
+                        }
+                    })
+                    .collect();
+                let shape = MultiPolygon::new(vec![Polygon::new(LineString::new(ring), vec![])]);
+                shapes.push(snapper.shape(&shape, |c| c));
+            }
+            shapes
+        }
+        Shapes::Irregular => crate::irregular::districts(
+            &mut rng,
+            size.districts,
+            size.vertices,
+            lon0 + 2.0,
+            lat0 - 2.0,
+        )?,
+    };
+    // Zones: bands of latitude with about as many districts each.
+    let mut by_lat: Vec<usize> = (0..shapes.len()).collect();
+    let lat_of = |s: &MultiPolygon<f64>| s.bounding_rect().map_or(0.0, |r| r.center().y);
+    by_lat.sort_by(|&a, &b| lat_of(&shapes[b]).total_cmp(&lat_of(&shapes[a])));
+    let mut zone = vec![0; shapes.len()];
+    for (rank, &d) in by_lat.iter().enumerate() {
+        zone[d] = rank * zones / shapes.len() + 1;
+    }
     let mut districts = Vec::with_capacity(size.districts);
-    for d in 0..size.districts {
-        let (col, row) = (d % cols, d / cols);
-        let centre = Coord {
-            x: lon0 + (col as f64 + 0.5) * cell + rng.random_range(-0.003..0.003),
-            y: lat0 - (row as f64 + 0.5) * cell + rng.random_range(-0.003..0.003),
-        };
-        let ring: Vec<Coord<f64>> = (0..8)
-            .map(|i| {
-                let theta = std::f64::consts::TAU * f64::from(i) / 8.0;
-                let r = cell * rng.random_range(0.3..0.42);
-                Coord {
-                    x: centre.x + r * theta.cos(),
-                    y: centre.y + r * theta.sin(),
-                }
-            })
-            .collect();
-        let shape = MultiPolygon::new(vec![Polygon::new(LineString::new(ring), vec![])]);
-        let shape = snapper.shape(&shape, |c| c);
+    for (d, shape) in shapes.into_iter().enumerate() {
         geometry::check_shape(&shape).map_err(|e| format!("district {d}: {e}"))?;
         districts.push(District {
             id: format!("d{:05}", d + 1),
             name: format!("District {}", d + 1),
             seats: if d % 25 == 0 { 2 } else { 1 },
-            region: Some(format!("Zone {}", row * 8 / rows_total + 1)),
+            region: Some(format!("Zone {}", zone[d])),
             geometry: shape,
         });
     }
@@ -167,6 +202,8 @@ mod tests {
             districts: 300,
             groups: 24,
             parties: 4,
+            shapes: Shapes::Lattice,
+            vertices: 200,
         };
         let ds = build(9, size).unwrap();
         assert_eq!(ds.districts.len(), 300);
@@ -187,12 +224,16 @@ mod tests {
             districts: 10,
             groups: 65,
             parties: 4,
+            shapes: Shapes::Lattice,
+            vertices: 200,
         };
         assert!(build(1, bad).is_err());
         let bad = BenchSize {
             districts: 10,
             groups: 2,
             parties: 13,
+            shapes: Shapes::Irregular,
+            vertices: 200,
         };
         assert!(build(1, bad).is_err());
     }

@@ -4,6 +4,7 @@
 mod bench;
 mod demo;
 mod geometry;
+mod irregular;
 mod model;
 mod names;
 
@@ -37,6 +38,14 @@ struct Cli {
     /// Benchmark mode: number of parties.
     #[arg(long, requires = "districts", value_parser = clap::value_parser!(u32).range(2..=12))]
     parties: Option<u32>,
+    /// Benchmark mode: district shapes, `lattice` (jittered octagons, 8 vertices) or
+    /// `irregular` (Voronoi cells whose shared edges wiggle, about --vertices each).
+    #[arg(long, requires = "districts", value_enum, default_value_t = bench::Shapes::Lattice)]
+    shapes: bench::Shapes,
+    /// Benchmark mode with irregular shapes: about this many vertices per district.
+    #[arg(long, requires = "districts", default_value_t = 200,
+          value_parser = clap::value_parser!(u32).range(12..=5000))]
+    vertices: u32,
 }
 
 /// The benchmark mode writes only into a new folder or over an earlier benchmark dataset,
@@ -69,11 +78,17 @@ fn run(cli: &Cli) -> Result<(), String> {
                 districts: districts as usize,
                 groups: cli.groups.unwrap_or(24) as usize,
                 parties: cli.parties.unwrap_or(4) as usize,
+                shapes: cli.shapes,
+                vertices: cli.vertices as usize,
             };
             let dataset = bench::build(cli.seed, size)?;
             println!(
-                "benchmark dataset: {} districts, {} groups, {} parties, {} rows, seed {}",
+                "benchmark dataset: {} districts ({} shapes), {} groups, {} parties, {} rows, seed {}",
                 dataset.districts.len(),
+                match cli.shapes {
+                    bench::Shapes::Lattice => "lattice",
+                    bench::Shapes::Irregular => "irregular",
+                },
                 dataset.groups.len(),
                 dataset.parties.len(),
                 dataset.rows.len(),

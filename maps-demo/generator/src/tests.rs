@@ -352,6 +352,8 @@ fn benchmark_mode_never_overwrites_the_demo() {
         districts: 20,
         groups: 3,
         parties: 2,
+        shapes: crate::bench::Shapes::Irregular,
+        vertices: 40,
     };
     let fresh = dir.join("bench");
     assert!(crate::check_bench_target(&fresh).is_ok());

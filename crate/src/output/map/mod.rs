@@ -115,10 +115,13 @@ pub fn layout(shapes: &[MultiPolygon<f64>], width: f64) -> MapLayout {
         width,
     );
     let centre = (fit.width / 2.0, fit.height / 2.0);
+    let fitted: Vec<MultiPolygon<f64>> = projected
+        .iter()
+        .map(|s| map_finite(s, |c| fit.apply(c)))
+        .collect();
     let mut paths = Vec::with_capacity(shapes.len());
     let mut anchors = Vec::with_capacity(shapes.len());
-    for shape in &projected {
-        let drawn = map_finite(shape, |c| fit.apply(c)).simplify_outline(simplify::DEFAULT_EPSILON);
+    for drawn in simplify::simplify_shared(&fitted, simplify::DEFAULT_EPSILON) {
         anchors.push(
             drawn
                 .label_anchor()
