@@ -87,7 +87,12 @@ export async function exportFile(kind, source, link) {
 /** The export controls: one button per file, with the caution beside them. */
 export function exportControls(onExport) {
   const button = (kind, label, hint) =>
-    el('button', { type: 'button', id: `export-${kind}`, 'data-export': kind, title: hint, onclick: () => onExport(kind) }, label);
+    el(
+      'button',
+      // The CSV button keeps its historical id, which scripts and tests use.
+      { type: 'button', id: kind === 'csv' ? 'download-csv' : `export-${kind}`, 'data-export': kind, title: hint, onclick: () => onExport(kind) },
+      label,
+    );
   return el(
     'div',
     { class: 'exports', role: 'group', 'aria-labelledby': 'exports-heading' },

@@ -132,24 +132,30 @@ pub fn aims(ds: &Dataset, t: &Tally) -> Vec<Aim> {
 /// What it would take, for every group in manifest order and then `all`, for each of
 /// [`aims`] of the tally `t` of scenario `s`.
 pub fn what_it_takes(ds: &Dataset, s: &Scenario, t: &Tally) -> Vec<Reach> {
+    let groups = (0..ds.group_count()).map(Some).chain(std::iter::once(None));
+    groups.flat_map(|g| for_group(ds, s, t, g)).collect()
+}
+
+/// [`what_it_takes`] for one slider pair: group `g`, or `None` for all groups together
+/// (the page computes one group at a time so that no single call blocks it for long).
+pub fn for_group(ds: &Dataset, s: &Scenario, t: &Tally, group: Option<usize>) -> Vec<Reach> {
+    if group.is_some_and(|g| g >= ds.group_count()) {
+        return Vec::new();
+    }
     let aims = aims(ds, t);
     let base = Shifts::from_scenario(ds, s);
     let mut scratch = Tally::default();
-    let mut out = Vec::new();
-    let groups = (0..ds.group_count()).map(Some).chain(std::iter::once(None));
-    for group in groups {
-        let turnout = search(ds, s, &base, group, Lever::Turnout, &aims, &mut scratch);
-        let margin = search(ds, s, &base, group, Lever::Margin, &aims, &mut scratch);
-        for (i, &aim) in aims.iter().enumerate() {
-            out.push(Reach {
-                group,
-                aim,
-                turnout: turnout[i],
-                margin: margin[i],
-            });
-        }
-    }
-    out
+    let turnout = search(ds, s, &base, group, Lever::Turnout, &aims, &mut scratch);
+    let margin = search(ds, s, &base, group, Lever::Margin, &aims, &mut scratch);
+    aims.iter()
+        .enumerate()
+        .map(|(i, &aim)| Reach {
+            group,
+            aim,
+            turnout: turnout[i],
+            margin: margin[i],
+        })
+        .collect()
 }
 
 /// The slider's current value.

@@ -364,8 +364,21 @@ impl Engine {
 
     /// [`Self::what_it_takes`] with a sentence each, for the page.
     pub fn what_it_takes_view(&self) -> Vec<ReachView> {
-        self.what_it_takes()
-            .into_iter()
+        self.views(self.what_it_takes())
+    }
+
+    /// What it would take for one group (`None`: all groups together), with sentences.
+    pub fn what_it_takes_group(&self, group: Option<usize>) -> Vec<ReachView> {
+        self.views(reach::for_group(
+            &self.ds,
+            &self.scenario,
+            &self.tally,
+            group,
+        ))
+    }
+
+    fn views(&self, all: Vec<Reach>) -> Vec<ReachView> {
+        all.into_iter()
             .map(|r| ReachView {
                 group: r.group.map_or(-1, |g| g as i64),
                 party: r.aim.party(),
@@ -651,5 +664,19 @@ mod tests {
             seat_rules(e.dataset()),
             "winner takes all in 1 district, D'Hondt in 2 districts (threshold 5%)"
         );
+    }
+
+    #[test]
+    fn what_it_takes_one_group_at_a_time_is_the_whole() {
+        let mut e = Engine::new(two_groups());
+        e.set_scenario("turnout=young:3");
+        let whole = e.what_it_takes_view();
+        let parts: Vec<ReachView> = [Some(0), Some(1), None]
+            .into_iter()
+            .flat_map(|g| e.what_it_takes_group(g))
+            .collect();
+        assert_eq!(whole, parts);
+        assert!(e.what_it_takes_group(Some(7)).is_empty());
+        assert!(whole.iter().all(|r| !r.sentence.is_empty()));
     }
 }

@@ -294,6 +294,13 @@ impl Engine {
         to_js(&self.inner.what_it_takes_view())
     }
 
+    /// [`Self::what_it_takes`] for one group (index; -1: all groups together), a few
+    /// tens of milliseconds, so the page can spread the work over several tasks.
+    #[wasm_bindgen(js_name = whatItTakesGroup)]
+    pub fn what_it_takes_group(&self, group_index: i32) -> JsValue {
+        to_js(&self.inner.what_it_takes_group(group(group_index)))
+    }
+
     #[wasm_bindgen(js_name = whatItTakesCsv)]
     pub fn what_it_takes_csv(&self) -> String {
         self.inner.what_it_takes_csv()

@@ -5,6 +5,9 @@
 //! use stratamap::output::shading::{step, mix_with_white};
 //! assert_eq!(step(0.5), 0);
 //! assert_eq!(step(12.0), 3);
+//! assert_eq!(step(1.96), 1); // shown as 2.0: "2 to 4.9 points"
+//! assert_eq!(step(4.94), 1); // shown as 4.9
+//! assert_eq!(step(1.95), 0); // stored as 1.94999…: shown as 1.9
 //! assert_eq!(mix_with_white("#204060", 1.0), "#204060");
 //! assert_eq!(mix_with_white("#000000", 0.5), "#808080");
 //! ```
@@ -22,16 +25,29 @@ pub const TIE_FILL: &str = "url(#sm-tie)";
 /// Number of steps.
 pub const STEPS: usize = STEP_BOUNDS.len() + 1;
 
-/// The step of a margin in points: 0 near-even … `STEPS − 1` safe.
+/// Decimals of a margin as the page's table and the exports show it.
+pub const SHOWN_DECIMALS: i32 = 1;
+
+/// The step of a margin in points: 0 near-even … `STEPS − 1` safe. The margin is
+/// classed as it is shown, rounded to [`SHOWN_DECIMALS`], so that a district the table
+/// shows as "2.0" is shaded "2 to 4.9", never "under 2".
 pub fn step(margin: f64) -> usize {
-    STEP_BOUNDS.iter().take_while(|b| margin >= **b).count()
+    // Rounded from the exact decimal value of the number, as the page's number format
+    // does (so 1.95, stored as 1.94999…, is 1.9 in both).
+    let shown: f64 = format!("{margin:.*}", SHOWN_DECIMALS as usize)
+        .parse()
+        .unwrap_or(margin);
+    STEP_BOUNDS.iter().take_while(|b| shown >= **b).count()
 }
 
-/// Labels of the steps, near-even first.
+/// Labels of the steps, near-even first; they do not overlap at the bounds ("2 to 4.9",
+/// then "5 to 9.9"), in the margin's shown precision.
 pub fn step_labels() -> Vec<String> {
+    let below =
+        |b: f64| crate::dataset::round_text(b - 10f64.powi(-SHOWN_DECIMALS), SHOWN_DECIMALS);
     let mut out = vec![format!("under {} points", STEP_BOUNDS[0])];
     for w in STEP_BOUNDS.windows(2) {
-        out.push(format!("{} to {} points", w[0], w[1]));
+        out.push(format!("{} to {} points", w[0], below(w[1])));
     }
     out.push(format!(
         "{} points or more",
