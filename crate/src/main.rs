@@ -65,6 +65,12 @@ mod cli {
             #[arg(long, default_value = "", help = SCENARIO_HELP)]
             scenario: String,
         },
+        /// Write a small example dataset (manifest, map, electorate and a README that
+        /// explains every field) into DIR, to open as it is and edit.
+        Template {
+            /// The folder to write into (made if missing); existing files are not replaced.
+            dir: PathBuf,
+        },
         /// Build electorate.csv from per-district margins and a groups table by
         /// iterative proportional fitting (raking); the report goes to standard error.
         Rake {
@@ -362,6 +368,29 @@ mod cli {
         Ok(String::new())
     }
 
+    fn template(dir: &std::path::Path) -> Result<String, String> {
+        use stratamap::build::template::FILES;
+        for (name, _) in FILES {
+            if dir.join(name).exists() {
+                return Err(format!(
+                    "{} already exists; give an empty or new folder",
+                    dir.join(name).display()
+                ));
+            }
+        }
+        std::fs::create_dir_all(dir).map_err(|e| format!("cannot make {}: {e}", dir.display()))?;
+        for (name, text) in FILES {
+            let p = dir.join(name);
+            std::fs::write(&p, text).map_err(|e| format!("cannot write {}: {e}", p.display()))?;
+        }
+        eprintln!(
+            "stratamap: wrote an example dataset in {}; try: stratamap check {}",
+            dir.display(),
+            dir.display()
+        );
+        Ok(String::new())
+    }
+
     pub fn main() -> ExitCode {
         let cli = match Cli::try_parse() {
             Ok(c) => c,
@@ -405,6 +434,7 @@ mod cli {
             Command::Simulate { dataset, scenario } => {
                 engine(&dataset, &scenario).and_then(|e| simulate(&e))
             }
+            Command::Template { dir } => template(&dir),
             Command::Rake {
                 margins,
                 groups,

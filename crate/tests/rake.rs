@@ -414,3 +414,100 @@ fn command_line_rakes_and_the_result_checks() {
     let o = run(&["rake", "--margins", "margins.csv"], &d);
     assert_eq!(o.status.code(), Some(2));
 }
+
+#[test]
+fn template_writes_a_dataset_that_checks() {
+    let d = dir("template");
+    let o = run(&["template", "example"], &d);
+    assert_eq!(
+        o.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&o.stderr)
+    );
+    for f in [
+        "dataset.json",
+        "districts.geojson",
+        "electorate.csv",
+        "README.md",
+    ] {
+        assert!(d.join("example").join(f).is_file(), "{f}");
+    }
+    let o = run(&["check", "example"], &d);
+    assert_eq!(
+        o.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&o.stderr)
+    );
+    let out = String::from_utf8(o.stdout).unwrap();
+    assert!(
+        out.contains("districts: 3 in 0 regions, 4 seats, majority 3"),
+        "{out}"
+    );
+    // Nothing is replaced.
+    let o = run(&["template", "example"], &d);
+    assert_eq!(o.status.code(), Some(1));
+    assert!(String::from_utf8_lossy(&o.stderr).contains("already exists"));
+}
+
+/// The README's worked example, step by step, on the committed demo files: the demo's
+/// districts carry regions, which a nationwide groups table ignores.
+#[test]
+fn readme_worked_example_rakes_the_demo_inputs() {
+    let d = dir("readme");
+    let demo = Path::new(env!("CARGO_MANIFEST_DIR")).join("../maps-demo");
+    std::fs::create_dir_all(d.join("mydata")).unwrap();
+    std::fs::copy(
+        demo.join("districts.geojson"),
+        d.join("mydata/districts.geojson"),
+    )
+    .unwrap();
+    let raking = demo.join("raking");
+    let p = |f: &str| raking.join(f).to_str().unwrap().to_string();
+    let (m, g, r) = (p("margins.csv"), p("groups.csv"), p("results.csv"));
+    let o = run(
+        &[
+            "rake",
+            "--margins",
+            &m,
+            "--groups",
+            &g,
+            "--results",
+            &r,
+            "--districts",
+            "mydata/districts.geojson",
+            "--manifest",
+            "mydata/dataset.json",
+            "-o",
+            "mydata/electorate.csv",
+        ],
+        &d,
+    );
+    let err = String::from_utf8_lossy(&o.stderr);
+    assert_eq!(o.status.code(), Some(0), "{err}");
+    assert!(err.contains("96 districts × 10 groups raked"), "{err}");
+    let o = run(&["check", "mydata"], &d);
+    assert_eq!(
+        o.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&o.stderr)
+    );
+    // The tally gives the results file's votes back in every district.
+    let o = run(&["tally", "mydata"], &d);
+    let out = String::from_utf8(o.stdout).unwrap();
+    let results = std::fs::read_to_string(raking.join("results.csv")).unwrap();
+    let header: Vec<&str> = out.lines().next().unwrap().split(',').collect();
+    let col = |name: &str| header.iter().position(|h| *h == name).unwrap();
+    for (row, want) in out.lines().skip(1).zip(results.lines().skip(1)) {
+        let got: Vec<&str> = row.split(',').collect();
+        let want: Vec<&str> = want.split(',').collect();
+        assert_eq!(got[0], want[0]);
+        for (k, party) in ["tideline", "ember", "orchard"].iter().enumerate() {
+            let v: f64 = got[col(&format!("votes_{party}"))].parse().unwrap();
+            let w: f64 = want[2 + k].parse().unwrap();
+            assert!((v - w).abs() < 1e-6, "{} {party}: {v} vs {w}", want[0]);
+        }
+    }
+}

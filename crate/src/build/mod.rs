@@ -8,3 +8,4 @@
 
 pub mod ipf;
 pub mod rake;
+pub mod template;

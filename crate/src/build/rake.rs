@@ -818,7 +818,10 @@ pub fn rake(inputs: &Inputs) -> Result<Raked, DatasetError> {
                         .find(|x| x.id == *id)
                         .and_then(|x| x.region.clone())
                     {
-                        regions[d] = r;
+                        // Only regional seeds look at the region.
+                        if groups.regional {
+                            regions[d] = r;
+                        }
                     }
                 }
                 dc.drain_into(&mut error);
@@ -897,7 +900,10 @@ pub fn rake(inputs: &Inputs) -> Result<Raked, DatasetError> {
     let mut rc = inputs.results.map(|i| Collector::new(i.name));
     for &d in &order {
         let id = &margins.districts[d];
-        let seed_list = &groups.seeds[&regions[d]];
+        // Every region has seeds (checked above); a missing one is a district with none.
+        let Some(seed_list) = groups.seeds.get(&regions[d]) else {
+            continue;
+        };
         let Some(targets) = district_margins(&margins, d, &mut mc) else {
             continue;
         };

@@ -7,6 +7,7 @@ mod geometry;
 mod irregular;
 mod model;
 mod names;
+mod raking;
 
 #[cfg(test)]
 mod tests;
@@ -131,6 +132,9 @@ fn run(cli: &Cli) -> Result<(), String> {
         }
     };
     dataset.write_to(&cli.out)?;
+    if cli.districts.is_none() {
+        raking::write_to(&dataset, &cli.out)?;
+    }
     println!("wrote {}", cli.out.display());
     Ok(())
 }
